@@ -1,0 +1,1 @@
+//! rod (in progress)

@@ -1,1 +1,48 @@
-fn main() {}
+//! `arcfinger`: lay out soft pneumatic fingers on a hub and check them against a set
+//! of target objects.
+//!
+//! `main` only turns the result of [`run`] into a process exit code (DESIGN 4.1):
+//! 0 = all checks pass, 1 = a check failed, 2 = bad input or usage, 3 = a solver did not
+//! converge. Every error goes to stderr prefixed with the program name.
+
+mod cli;
+mod commands;
+mod error;
+mod ordered_map;
+mod output;
+mod scene_doc;
+mod scene_file;
+
+use std::process::ExitCode;
+
+use clap::Parser;
+
+use crate::error::{AppError, Outcome};
+
+fn main() -> ExitCode {
+    let opts = match cli::Opts::try_parse() {
+        Ok(o) => o,
+        Err(e) => {
+            // clap prints help/version to stdout with exit 0 and usage errors with exit 2
+            let code = if e.use_stderr() { 2 } else { 0 };
+            let _ = e.print();
+            return ExitCode::from(code);
+        }
+    };
+    match run(opts) {
+        Ok(outcome) => ExitCode::from(outcome.exit_code()),
+        Err(e) => {
+            if !e.is_broken_pipe() {
+                eprintln!("arcfinger: {e}");
+            }
+            ExitCode::from(e.exit_code())
+        }
+    }
+}
+
+fn run(opts: cli::Opts) -> Result<Outcome, AppError> {
+    match opts.command {
+        cli::Command::Bend(args) => commands::bend::run(args),
+        cli::Command::Materials(args) => commands::materials::run(args),
+    }
+}

@@ -23,10 +23,15 @@ pub struct LibraryEntry {
     pub source: &'static str,
 }
 
-const FROM_MEMORY_S100: &str =
-    "datasheet-class values, from memory; neo-Hookean mu = (100 % modulus) / 1.75";
+const FROM_MEMORY_S100: &str = "datasheet-class values, from memory; neo-Hookean mu = (100 % modulus) / 1.75";
 
-fn neo_hookean_class(name: &'static str, sg: f64, s100_kpa: f64, elongation: f64, cure_time_h: f64) -> LibraryEntry {
+fn neo_hookean_class(
+    name: &'static str,
+    sg: f64,
+    s100_kpa: f64,
+    elongation: f64,
+    cure_time_h: f64,
+) -> LibraryEntry {
     let mu = s100_kpa * 1e3 / 1.75;
     LibraryEntry {
         name,
@@ -52,7 +57,9 @@ pub fn library() -> Vec<LibraryEntry> {
         LibraryEntry {
             name: "platinum silicone, Shore 28A (9:1 mix)",
             material: Material {
-                model: HyperelasticModel::Yeoh(Yeoh::new(0.11e6, 0.02e6, 0.0).unwrap_or_else(|_| unreachable!())),
+                model: HyperelasticModel::Yeoh(
+                    Yeoh::new(0.11e6, 0.02e6, 0.0).unwrap_or_else(|_| unreachable!()),
+                ),
                 density: 1130.0,
                 stretch_at_break: 8.0,
             },

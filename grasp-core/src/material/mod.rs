@@ -141,7 +141,9 @@ pub enum MaterialError {
     },
     /// The planar-tension stress stops increasing with stretch: the parameters describe
     /// an unstable material in the range the actuator model uses (Drucker's condition).
-    #[error("planar-tension stress stops increasing at stretch {stretch:.3}: the parameters are unstable there")]
+    #[error(
+        "planar-tension stress stops increasing at stretch {stretch:.3}: the parameters are unstable there"
+    )]
     Unstable {
         /// First stretch at which the tangent is not positive.
         stretch: f64,
@@ -149,11 +151,7 @@ pub enum MaterialError {
 }
 
 pub(crate) fn finite(name: &'static str, value: f64) -> Result<f64, MaterialError> {
-    if value.is_finite() {
-        Ok(value)
-    } else {
-        Err(MaterialError::NotFinite { name, value })
-    }
+    if value.is_finite() { Ok(value) } else { Err(MaterialError::NotFinite { name, value }) }
 }
 
 /// The material models a scene can name.

@@ -99,7 +99,7 @@ impl StrainEnergy for Ogden {
 mod tests {
     use super::*;
     use crate::material::test_support::check_model;
-    use crate::material::{NeoHookean, MooneyRivlin};
+    use crate::material::{MooneyRivlin, NeoHookean};
     use approx::assert_relative_eq;
 
     /// Ogden (1972)'s three terms for Treloar's rubber (MPa), as quoted in
@@ -116,7 +116,10 @@ mod tests {
     #[test]
     fn derivatives_match_finite_differences() {
         check_model(&ogden_1972());
-        check_model(&Ogden::new(vec![OgdenTerm { mu: 24e3, alpha: 1.8 }, OgdenTerm { mu: 0.4e3, alpha: 6.0 }]).unwrap());
+        check_model(
+            &Ogden::new(vec![OgdenTerm { mu: 24e3, alpha: 1.8 }, OgdenTerm { mu: 0.4e3, alpha: 6.0 }])
+                .unwrap(),
+        );
     }
 
     /// Ogden's 1972 parameters give mu = 1/2 (0.63·1.3 + 0.0012·5 + 0.01·2) = 0.4225 MPa.
@@ -131,13 +134,22 @@ mod tests {
     fn reduces_to_neo_hookean_and_mooney_rivlin() {
         let og = Ogden::new(vec![OgdenTerm { mu: 30e3, alpha: 2.0 }]).unwrap();
         let nh = NeoHookean::new(30e3).unwrap();
-        let og2 = Ogden::new(vec![OgdenTerm { mu: 2.0 * 10e3, alpha: 2.0 }, OgdenTerm { mu: -2.0 * 1.5e3, alpha: -2.0 }]).unwrap();
+        let og2 = Ogden::new(vec![
+            OgdenTerm { mu: 2.0 * 10e3, alpha: 2.0 },
+            OgdenTerm { mu: -2.0 * 1.5e3, alpha: -2.0 },
+        ])
+        .unwrap();
         let mr = MooneyRivlin::new(10e3, 1.5e3).unwrap();
         for l in [0.5, 1.4, 3.0] {
             for l2 in [0.7, 1.0] {
                 assert_relative_eq!(og.stress_1(l, l2), nh.stress_1(l, l2), max_relative = 1e-12);
                 assert_relative_eq!(og2.stress_1(l, l2), mr.stress_1(l, l2), max_relative = 1e-12);
-                assert_relative_eq!(og2.strain_energy(l, l2), mr.strain_energy(l, l2), max_relative = 1e-12, epsilon = 1e-9);
+                assert_relative_eq!(
+                    og2.strain_energy(l, l2),
+                    mr.strain_energy(l, l2),
+                    max_relative = 1e-12,
+                    epsilon = 1e-9
+                );
             }
         }
     }
@@ -152,7 +164,13 @@ mod tests {
     #[test]
     fn rejects_empty_zero_exponent_and_negative_modulus() {
         assert_eq!(Ogden::new(vec![]), Err(MaterialError::NoTerms));
-        assert!(matches!(Ogden::new(vec![OgdenTerm { mu: 1.0, alpha: 0.0 }]), Err(MaterialError::ZeroExponent { index: 0 })));
-        assert!(matches!(Ogden::new(vec![OgdenTerm { mu: -1.0, alpha: 2.0 }]), Err(MaterialError::NonPositiveModulus { .. })));
+        assert!(matches!(
+            Ogden::new(vec![OgdenTerm { mu: 1.0, alpha: 0.0 }]),
+            Err(MaterialError::ZeroExponent { index: 0 })
+        ));
+        assert!(matches!(
+            Ogden::new(vec![OgdenTerm { mu: -1.0, alpha: 2.0 }]),
+            Err(MaterialError::NonPositiveModulus { .. })
+        ));
     }
 }

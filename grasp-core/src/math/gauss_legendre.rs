@@ -52,10 +52,7 @@ impl GaussLegendre {
     pub fn on_interval(&self, a: f64, b: f64) -> impl Iterator<Item = (f64, f64)> + '_ {
         let half = 0.5 * (b - a);
         let mid = 0.5 * (a + b);
-        self.nodes
-            .iter()
-            .zip(&self.weights)
-            .map(move |(x, w)| (mid + half * x, half * w))
+        self.nodes.iter().zip(&self.weights).map(move |(x, w)| (mid + half * x, half * w))
     }
 
     /// Integral of `f` over `[a, b]`.

@@ -1,1 +1,1 @@
-//! rod (in progress)
+//! The finger as a discretised planar rod (in progress).

@@ -1,0 +1,70 @@
+//! Command-line options (clap derive). Each command's options are turned into a
+//! validated configuration inside its module before any work is done.
+
+use std::path::PathBuf;
+
+use clap::{Args, Parser, Subcommand, ValueEnum};
+
+/// Lay out soft pneumatic fingers on a hub and check them against a set of target
+/// objects.
+///
+/// Exit codes: 0 = all checks pass, 1 = a check failed, 2 = bad input or usage,
+/// 3 = a solver did not converge.
+#[derive(Debug, Parser)]
+#[command(name = "arcfinger", version, about, long_about = None)]
+pub struct Opts {
+    /// What to do.
+    #[command(subcommand)]
+    pub command: Command,
+}
+
+/// The commands.
+#[derive(Debug, Subcommand)]
+pub enum Command {
+    /// Free-bending curve and blocked tip force of one actuator over a pressure range.
+    Bend(BendArgs),
+    /// List the built-in casting-silicone classes and their parameters.
+    Materials(MaterialsArgs),
+}
+
+/// Which moment balance `bend` uses.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum SectionModelArg {
+    /// Plain moment balance.
+    Baseline,
+    /// Moment balance plus the pressure acting through the wall thickness.
+    WallPressure,
+}
+
+/// `arcfinger bend`.
+#[derive(Debug, Args)]
+pub struct BendArgs {
+    /// Scene file (RON).
+    pub scene: PathBuf,
+    /// Actuator name from the scene (may be left out when the scene has only one).
+    #[arg(long, value_name = "NAME")]
+    pub actuator: Option<String>,
+    /// Pressures in kPa as FROM:TO:STEP, e.g. 0:60:5 [default: 0 to the rated pressure in 20 steps].
+    #[arg(long, value_name = "A:B:STEP")]
+    pub pressures: Option<String>,
+    /// Override the actuator's moment balance.
+    #[arg(long, value_enum, value_name = "MODEL")]
+    pub section_model: Option<SectionModelArg>,
+    /// Write the JSON result to FILE (`-` = stdout).
+    #[arg(long, value_name = "FILE")]
+    pub json: Option<String>,
+    /// Draw bend angle and blocked force against pressure into an SVG file.
+    #[arg(long, value_name = "FILE.svg")]
+    pub plot: Option<PathBuf>,
+    /// Rod elements along the chamber for the blocked-force solve (>= 40).
+    #[arg(long, value_name = "N", default_value_t = 48)]
+    pub elements: usize,
+}
+
+/// `arcfinger materials`.
+#[derive(Debug, Args)]
+pub struct MaterialsArgs {
+    /// Write the list as JSON to FILE (`-` = stdout).
+    #[arg(long, value_name = "FILE")]
+    pub json: Option<String>,
+}

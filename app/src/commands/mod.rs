@@ -1,0 +1,5 @@
+//! One module per command: each turns its options into a configuration, runs the core,
+//! and writes its reports.
+
+pub mod bend;
+pub mod materials;

@@ -10,8 +10,10 @@ mod commands;
 mod error;
 mod ordered_map;
 mod output;
+mod plot;
 mod scene_doc;
 mod scene_file;
+mod suggest;
 
 use std::process::ExitCode;
 

@@ -1,10 +1,399 @@
-//! `arcfinger bend` (in progress).
+//! `arcfinger bend`: the free-bending curve, blocked tip force and wall stretch of one
+//! actuator over a range of pressures.
+//!
+//! For each pressure: the free curvature of the moment balance (DESIGN 3.2), the bend
+//! angle and tip position of the constant-curvature finger, the largest wall stretch, and
+//! the blocked tip force from the rod solve (DESIGN 3.3), each rod solve warm-started
+//! from the previous pressure's. The curve is weightless, as the published model is.
+//!
+//! Exit codes: 0 when every pressure solved inside the model's range and below the
+//! stretch at break; 1 when some pressure is out of the model's range or stretches the
+//! wall to its elongation at break; 3 when a rod solve did not converge.
 
-use crate::cli::BendArgs;
+use std::fmt::Write as _;
+
+use grasp_core::actuator::{Actuator, BendError, FreeBending};
+use grasp_core::rod::{Rod, SolveReport, blocked_tip_force};
+use grasp_core::scene::Scene;
+use grasp_core::section::SectionModel;
+use serde::Serialize;
+
+use crate::cli::{BendArgs, SectionModelArg};
 use crate::error::{AppError, Outcome};
+use crate::output::{Sink, refuse_overwrite};
+use crate::suggest::did_you_mean;
+
+/// Fewest rod elements along the chamber (DESIGN 3.3).
+pub const MIN_ELEMENTS: usize = 40;
+/// Most rod elements accepted (solve cost grows with the cube).
+pub const MAX_ELEMENTS: usize = 400;
+/// Most pressures in one run.
+pub const MAX_PRESSURES: usize = 10_000;
+
+/// The validated configuration of one `bend` run.
+#[derive(Debug)]
+struct Config {
+    actuator: Actuator,
+    pressures_kpa: Vec<f64>,
+    model: SectionModel,
+    elements: usize,
+    json: Option<Sink>,
+    plot: Option<std::path::PathBuf>,
+}
+
+/// Parses `A:B:STEP` (kPa) into the list of pressures, `B` included when on the grid.
+///
+/// # Errors
+/// A message saying what was expected.
+pub fn parse_pressures(text: &str) -> Result<Vec<f64>, String> {
+    let parts: Vec<&str> = text.split(':').collect();
+    let [a, b, step] = parts.as_slice() else {
+        return Err(format!("--pressures: expected FROM:TO:STEP in kPa (e.g. 0:60:5), got \"{text}\""));
+    };
+    let num = |s: &str, what: &str| -> Result<f64, String> {
+        match s.trim().parse::<f64>() {
+            Ok(v) if v.is_finite() => Ok(v),
+            _ => Err(format!("--pressures: {what} must be a finite number of kPa, got \"{s}\"")),
+        }
+    };
+    let (a, b, step) = (num(a, "FROM")?, num(b, "TO")?, num(step, "STEP")?);
+    if a < 0.0 {
+        return Err(format!("--pressures: FROM must be >= 0 kPa, got {a}"));
+    }
+    if b < a {
+        return Err(format!("--pressures: TO must be >= FROM, got {a}:{b}"));
+    }
+    if !(step > 0.0) {
+        return Err(format!("--pressures: STEP must be > 0 kPa, got {step}"));
+    }
+    let n = ((b - a) / step + 1e-9).floor();
+    if n + 1.0 > MAX_PRESSURES as f64 {
+        return Err(format!("--pressures: {a}:{b}:{step} gives {} pressures, more than the limit of {MAX_PRESSURES}", n + 1.0));
+    }
+    Ok((0..=n as usize).map(|i| a + step * i as f64).collect())
+}
+
+impl Config {
+    fn new(args: BendArgs, scene: Scene) -> Result<Self, AppError> {
+        let origin = args.scene.display().to_string();
+        let names: Vec<&str> = scene.actuators.iter().map(|a| a.name.as_str()).collect();
+        let actuator = match &args.actuator {
+            Some(name) => scene.actuator(name).cloned().ok_or_else(|| {
+                AppError::input(format!(
+                    "--actuator: no actuator \"{name}\" in {origin}{} (defined: {})",
+                    did_you_mean(name, names.iter().copied()).map(|s| format!("; did you mean \"{s}\"?")).unwrap_or_default(),
+                    names.join(", ")
+                ))
+            })?,
+            None if scene.actuators.len() == 1 => scene.actuators[0].clone(),
+            None => {
+                return Err(AppError::input(format!(
+                    "--actuator: {origin} defines {} actuators; name one of: {}",
+                    names.len(),
+                    names.join(", ")
+                )));
+            }
+        };
+        let rated_kpa = actuator.max_pressure / 1e3;
+        let pressures_kpa = match &args.pressures {
+            Some(text) => parse_pressures(text).map_err(AppError::Input)?,
+            None => parse_pressures(&format!("0:{rated_kpa}:{}", rated_kpa / 20.0)).map_err(AppError::Input)?,
+        };
+        if let Some(top) = pressures_kpa.iter().copied().find(|&p| p > rated_kpa * (1.0 + 1e-12)) {
+            return Err(AppError::input(format!(
+                "--pressures: {top} kPa is above the rated maximum of actuator \"{}\" ({rated_kpa} kPa); \
+                 the model is not a licence to over-pressurise a finger",
+                actuator.name
+            )));
+        }
+        if !(MIN_ELEMENTS..=MAX_ELEMENTS).contains(&args.elements) {
+            return Err(AppError::input(format!(
+                "--elements: must be between {MIN_ELEMENTS} and {MAX_ELEMENTS}, got {}",
+                args.elements
+            )));
+        }
+        let json = args.json.as_deref().map(Sink::parse);
+        let inputs = [args.scene.as_path()];
+        if let Some(Sink::File(p)) = &json {
+            refuse_overwrite(p, &inputs)?;
+        }
+        if let Some(p) = &args.plot {
+            refuse_overwrite(p, &inputs)?;
+        }
+        let model = match args.section_model {
+            Some(SectionModelArg::Baseline) => SectionModel::Baseline,
+            Some(SectionModelArg::WallPressure) => SectionModel::WallPressure,
+            None => actuator.section_model,
+        };
+        Ok(Self { actuator, pressures_kpa, model, elements: args.elements, json, plot: args.plot })
+    }
+}
+
+/// One pressure's result.
+#[derive(Debug, Clone, Serialize)]
+pub struct BendPoint {
+    /// Pressure (kPa).
+    pub pressure_kpa: f64,
+    /// Free chamber curvature (1/mm).
+    pub curvature_per_mm: Option<f64>,
+    /// Bend angle of the tip (deg).
+    pub bend_deg: Option<f64>,
+    /// Tip in finger-plane coordinates `[u, w]` (mm).
+    pub tip_mm: Option<[f64; 2]>,
+    /// Blocked tip force (N).
+    pub blocked_force_n: Option<f64>,
+    /// Largest axial stretch in the wall (the top surface).
+    pub max_stretch: Option<f64>,
+    /// `(max_stretch - 1) / (stretch_at_break - 1)`: 1 = at the elongation at break.
+    pub break_utilisation: Option<f64>,
+    /// `"ok"`, `"over-break"` (stretch at or beyond break), `"out-of-range"` (no balance
+    /// inside the model's range) or `"not-converged"` (the blocked-force solve).
+    pub status: &'static str,
+    /// Why, when the status is not `"ok"`.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub note: Option<String>,
+    /// Newton iterations of the blocked-force rod solve.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub rod_iterations: Option<usize>,
+}
+
+/// The JSON document of DESIGN 4.3 (`bend`), with a few extra keys.
+#[derive(Debug, Serialize)]
+pub struct BendDoc {
+    /// `"arcfinger/bend/1"`.
+    pub format: &'static str,
+    /// Actuator name.
+    pub actuator: String,
+    /// `"wall-pressure"` or `"baseline"`.
+    pub model: &'static str,
+    /// Rated maximum pressure (kPa).
+    pub max_pressure_kpa: f64,
+    /// Rod elements along the chamber.
+    pub rod_elements: usize,
+    /// One entry per pressure.
+    pub points: Vec<BendPoint>,
+}
+
+fn point(actuator: &Actuator, rod: &Rod, p_kpa: f64, model: SectionModel, guess: &mut Option<Vec<f64>>) -> Result<BendPoint, AppError> {
+    let p = p_kpa * 1e3;
+    let empty = |status, note: String| BendPoint {
+        pressure_kpa: p_kpa,
+        curvature_per_mm: None,
+        bend_deg: None,
+        tip_mm: None,
+        blocked_force_n: None,
+        max_stretch: None,
+        break_utilisation: None,
+        status,
+        note: Some(note),
+        rod_iterations: None,
+    };
+    let free: FreeBending = match actuator.free_bending_with(p, model) {
+        Ok(f) => f,
+        Err(e @ (BendError::OutOfRange { .. } | BendError::Unbounded { .. })) => {
+            return Ok(empty("out-of-range", e.to_string()));
+        }
+        Err(e) => return Err(AppError::NotConverged(format!("actuator \"{}\" at {p_kpa} kPa: {e}", actuator.name))),
+    };
+    let law = actuator.law(p, model);
+    let blocked = blocked_tip_force(rod, &law, guess.as_deref())
+        .map_err(|e| AppError::input(format!("actuator \"{}\": {e}", actuator.name)))?;
+    let report: SolveReport = blocked.solution.report;
+    let converged = report.converged();
+    if converged {
+        *guess = Some(blocked.solution.angles.clone());
+    }
+    let over = free.break_utilisation >= 1.0;
+    let (status, note) = match (converged, over) {
+        (false, _) => (
+            "not-converged",
+            Some(format!(
+                "blocked-force solve {} after {} iterations (residual {:.1e})",
+                report.status.name(),
+                report.iterations,
+                report.residual
+            )),
+        ),
+        (true, true) => ("over-break", Some(format!("wall stretch {:.3} reaches the stretch at break", free.max_stretch))),
+        (true, false) => ("ok", None),
+    };
+    Ok(BendPoint {
+        pressure_kpa: p_kpa,
+        curvature_per_mm: Some(free.curvature / 1e3),
+        bend_deg: Some(free.bend_angle.to_degrees()),
+        tip_mm: Some([free.tip.x * 1e3, free.tip.y * 1e3]),
+        blocked_force_n: converged.then_some(blocked.force),
+        max_stretch: Some(free.max_stretch),
+        break_utilisation: Some(free.break_utilisation),
+        status,
+        note,
+        rod_iterations: Some(report.iterations),
+    })
+}
+
+/// Computes the curve (no I/O).
+pub fn compute(actuator: &Actuator, pressures_kpa: &[f64], model: SectionModel, elements: usize) -> Result<BendDoc, AppError> {
+    let rod = Rod::of_actuator(actuator, elements).map_err(|e| AppError::input(format!("actuator \"{}\": {e}", actuator.name)))?;
+    let mut guess = None;
+    let points = pressures_kpa.iter().map(|&p| point(actuator, &rod, p, model, &mut guess)).collect::<Result<Vec<_>, _>>()?;
+    Ok(BendDoc {
+        format: "arcfinger/bend/1",
+        actuator: actuator.name.clone(),
+        model: model.name(),
+        max_pressure_kpa: actuator.max_pressure / 1e3,
+        rod_elements: elements,
+        points,
+    })
+}
+
+fn opt(v: Option<f64>, prec: usize) -> String {
+    v.map_or_else(|| "-".to_string(), |x| format!("{x:.prec$}"))
+}
+
+/// The readable table.
+pub fn table(doc: &BendDoc, actuator: &Actuator) -> String {
+    let mut s = String::new();
+    let _ = writeln!(
+        s,
+        "actuator \"{}\" ({}, {} section, {} moment balance), rated {} kPa",
+        doc.actuator,
+        actuator.material_name,
+        actuator.section.kind(),
+        doc.model,
+        doc.max_pressure_kpa
+    );
+    let _ = writeln!(
+        s,
+        "{:>9} {:>11} {:>9} {:>9} {:>9} {:>10} {:>9} {:>7}  {}",
+        "p (kPa)", "k (1/mm)", "bend (°)", "u (mm)", "w (mm)", "F_blk (N)", "stretch", "break", "status"
+    );
+    for p in &doc.points {
+        let (u, w) = p.tip_mm.map_or((None, None), |t| (Some(t[0]), Some(t[1])));
+        let _ = writeln!(
+            s,
+            "{:>9.2} {:>11} {:>9} {:>9} {:>9} {:>10} {:>9} {:>6}%  {}{}",
+            p.pressure_kpa,
+            opt(p.curvature_per_mm, 5),
+            opt(p.bend_deg, 1),
+            opt(u, 2),
+            opt(w, 2),
+            opt(p.blocked_force_n, 3),
+            opt(p.max_stretch, 3),
+            opt(p.break_utilisation.map(|b| b * 100.0), 0),
+            p.status,
+            p.note.as_ref().map(|n| format!(": {n}")).unwrap_or_default()
+        );
+    }
+    s.push_str(
+        "\nbreak = wall strain as a share of the elongation at break. Free bending is weightless; the\n\
+         blocked force holds the tip on the unbent axis. Estimates for design, not a rating: never\n\
+         exceed the rated pressure, and use a regulator, a relief valve and eye protection.\n",
+    );
+    s
+}
 
 /// Runs `bend`.
 pub fn run(args: BendArgs) -> Result<Outcome, AppError> {
-    let _scene = crate::scene_file::load(&args.scene)?;
-    Err(AppError::input("bend is not built yet"))
+    let scene = crate::scene_file::load(&args.scene)?;
+    let cfg = Config::new(args, scene)?;
+    let doc = compute(&cfg.actuator, &cfg.pressures_kpa, cfg.model, cfg.elements)?;
+    if let Some(plot) = &cfg.plot {
+        let svg = crate::plot::bend_svg(&doc).map_err(|e| AppError::input(format!("drawing {}: {e}", plot.display())))?;
+        crate::output::write_atomic(plot, svg.as_bytes())?;
+    }
+    match &cfg.json {
+        Some(sink) => {
+            let mut text = serde_json::to_string_pretty(&doc).map_err(AppError::input)?;
+            text.push('\n');
+            sink.write(text.as_bytes())?;
+            if *sink != Sink::Stdout {
+                Sink::Stdout.write(table(&doc, &cfg.actuator).as_bytes())?;
+            }
+        }
+        None => Sink::Stdout.write(table(&doc, &cfg.actuator).as_bytes())?,
+    }
+    if doc.points.iter().any(|p| p.status == "not-converged") {
+        return Err(AppError::NotConverged(format!(
+            "the blocked-force solve of actuator \"{}\" did not converge at some pressures (status \"not-converged\" above)",
+            doc.actuator
+        )));
+    }
+    Ok(if doc.points.iter().all(|p| p.status == "ok") { Outcome::Pass } else { Outcome::Fail })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn pressure_ranges_parse_and_include_their_end() {
+        assert_eq!(parse_pressures("0:60:20").unwrap(), vec![0.0, 20.0, 40.0, 60.0]);
+        assert_eq!(parse_pressures("5:5:1").unwrap(), vec![5.0]);
+        assert_eq!(parse_pressures("0:10:3").unwrap(), vec![0.0, 3.0, 6.0, 9.0]);
+        assert_eq!(parse_pressures("0:0.3:0.1").unwrap().len(), 4);
+    }
+
+    #[test]
+    fn bad_pressure_ranges_say_what_is_expected() {
+        for (text, needle) in [
+            ("0:60", "FROM:TO:STEP"),
+            ("a:60:5", "FROM must be a finite"),
+            ("0:60:0", "STEP must be > 0"),
+            ("0:60:-1", "STEP must be > 0"),
+            ("60:0:5", "TO must be >= FROM"),
+            ("-5:10:5", "FROM must be >= 0"),
+            ("0:NaN:5", "TO must be a finite"),
+            ("0:1e9:1", "more than the limit"),
+        ] {
+            let e = parse_pressures(text).unwrap_err();
+            assert!(e.contains(needle), "{text}: {e}");
+        }
+    }
+}
+
+#[cfg(test)]
+mod curve_tests {
+    use super::*;
+    use grasp_core::actuator::Fiber;
+    use grasp_core::material::{HyperelasticModel, Material, Yeoh};
+    use grasp_core::section::{BoxSection, SectionProfile};
+
+    /// DESIGN 4.2's example actuator "f100".
+    fn f100() -> Actuator {
+        Actuator::new(
+            "f100",
+            "soft-00-30",
+            Material { model: HyperelasticModel::Yeoh(Yeoh::new(12e3, 0.4e3, 0.0).unwrap()), density: 1070.0, stretch_at_break: 10.0 },
+            SectionProfile::Box(BoxSection::new(12e-3, 10e-3, 3e-3, 3e-3, 3e-3, 1e-3).unwrap()),
+            0.09,
+            0.005,
+            0.005,
+            Fiber { pitch: 4e-3, width: 1.5e-3 },
+            60e3,
+            SectionModel::WallPressure,
+        )
+        .unwrap()
+    }
+
+    /// The curve is consistent with the core's free bending at every point, bends
+    /// monotonically, and the blocked force grows with pressure from zero.
+    #[test]
+    fn curve_matches_core_free_bending_and_grows() {
+        let a = f100();
+        let pressures = parse_pressures("0:60:5").unwrap();
+        let doc = compute(&a, &pressures, SectionModel::WallPressure, 48).unwrap();
+        assert_eq!(doc.points.len(), 13);
+        assert_eq!(doc.points[0].blocked_force_n, Some(0.0));
+        let mut last = (-1.0, -1.0);
+        for p in &doc.points {
+            assert_eq!(p.status, "ok", "{p:?}");
+            let free = a.free_bending(p.pressure_kpa * 1e3).unwrap();
+            assert_eq!(p.bend_deg, Some(free.bend_angle.to_degrees()));
+            let (b, f) = (p.bend_deg.unwrap(), p.blocked_force_n.unwrap());
+            assert!(b >= last.0 && f >= last.1, "{p:?}");
+            last = (b, f);
+        }
+        let text = table(&doc, &a);
+        assert!(text.contains("f100") && text.lines().count() > 13);
+    }
 }

@@ -75,15 +75,35 @@ pub fn parse_error_message(file: &str, text: &str, err: &SpannedError) -> String
     out
 }
 
+/// Longest stretch of a source line shown in an excerpt (characters).
+const EXCERPT_WIDTH: usize = 100;
+
 /// The source line with a gutter, and a caret line under columns `col..col + width`.
+/// Long lines are cut to a window around the column (marked with `...`); control
+/// characters are shown as `?` so the terminal stays readable.
 fn excerpt(line_no: usize, line_text: &str, col: usize, width: usize) -> String {
-    let line_text = line_text.trim_end_matches('\r');
+    let chars: Vec<char> = line_text
+        .trim_end_matches('\r')
+        .chars()
+        .map(|c| if c.is_control() && c != '\t' { '?' } else { c })
+        .collect();
+    let col0 = col.saturating_sub(1).min(chars.len());
+    let (from, to) = if chars.len() <= EXCERPT_WIDTH {
+        (0, chars.len())
+    } else {
+        let from = col0.saturating_sub(EXCERPT_WIDTH / 2);
+        (from, (from + EXCERPT_WIDTH).min(chars.len()))
+    };
+    let shown: String = chars[from..to].iter().collect();
+    let lead = if from > 0 { "..." } else { "" };
+    let tail = if to < chars.len() { "..." } else { "" };
     // keep tabs as tabs so the caret lines up in any tab width
-    let pad: String =
-        line_text.chars().take(col.saturating_sub(1)).map(|c| if c == '\t' { '\t' } else { ' ' }).collect();
-    let avail = line_text.chars().count().saturating_sub(col.saturating_sub(1)).max(1);
+    let pad: String = std::iter::repeat_n(' ', lead.len())
+        .chain(chars[from..col0].iter().map(|&c| if c == '\t' { '\t' } else { ' ' }))
+        .collect();
+    let avail = to.saturating_sub(col0).max(1);
     let carets = "^".repeat(width.clamp(1, avail));
-    format!("{line_no:>6} | {line_text}\n{:>6} | {pad}{carets}", "")
+    format!("{line_no:>6} | {lead}{shown}{tail}\n{:>6} | {pad}{carets}", "")
 }
 
 /// A short description of the text found at a position, for "found ..." phrases.
@@ -102,6 +122,8 @@ fn found_at(text: &str, line: usize, col: usize) -> String {
     } else if first == '_' || first.is_alphabetic() {
         let id: String = rest.chars().take_while(|c| *c == '_' || c.is_alphanumeric()).collect();
         format!("`{}`", clip(&id))
+    } else if first.is_control() {
+        format!("the control character U+{:04X}", u32::from(first))
     } else {
         format!("`{first}`")
     }
@@ -296,6 +318,18 @@ mod tests {
         assert_eq!(e, "     7 | \tmass_g: x,\n       | \t        ^");
         let e = excerpt(7, "ab", 1, 10);
         assert_eq!(e, "     7 | ab\n       | ^^");
+        let e = excerpt(3, "a\u{0}b", 2, 1);
+        assert_eq!(e, "     3 | a?b\n       |  ^");
+    }
+
+    #[test]
+    fn long_lines_are_cut_around_the_column() {
+        let line: String = (0..1000).map(|i| if i == 600 { 'X' } else { '[' }).collect();
+        let e = excerpt(1, &line, 601, 1);
+        let (src, caret) = e.split_once('\n').unwrap();
+        assert!(src.len() < 130 && src.contains("...") && src.ends_with("..."), "{src}");
+        // the caret sits under the X
+        assert_eq!(src.find('X'), caret.find('^'));
     }
 
     #[test]
@@ -306,6 +340,7 @@ mod tests {
         assert_eq!(found_at(t, 1, 20), "`xyz`");
         assert_eq!(found_at(t, 1, 28), "`(`");
         assert_eq!(found_at(t, 2, 1), "the end of the file");
+        assert_eq!(found_at("\u{0}", 1, 1), "the control character U+0000");
     }
 
     #[test]

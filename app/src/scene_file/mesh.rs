@@ -140,7 +140,7 @@ fn parse_stl(bytes: &[u8]) -> Result<Parsed, String> {
                     bytes.len()
                 ));
             }
-            (Some(n), _) if n as usize > MAX_TRIANGLES => return Err(too_many(n as usize)),
+            (Some(n), _) if n as usize > MAX_TRIANGLES => return Err(too_many(Some(n as usize))),
             (Some(n), Some(size)) if size > bytes.len() as u64 => {
                 return Err(format!(
                     "binary STL is truncated: its header declares {n} triangles ({size} bytes), the file has {} bytes",
@@ -159,7 +159,7 @@ fn parse_stl(bytes: &[u8]) -> Result<Parsed, String> {
     for (i, t) in reader.enumerate() {
         let t = t.map_err(|e| format!("is not a valid STL file (triangle {}): {e}", i + 1))?;
         if triangles.len() == MAX_TRIANGLES {
-            return Err(too_many(MAX_TRIANGLES + 1));
+            return Err(too_many(None));
         }
         let mut tri = [0usize; 3];
         for (k, v) in t.vertices.iter().enumerate() {
@@ -202,7 +202,7 @@ fn parse_obj(bytes: &[u8]) -> Result<Parsed, String> {
         vertices.extend(mesh.positions.chunks_exact(3).map(|c| [c[0], c[1], c[2]]));
         for f in mesh.indices.chunks_exact(3) {
             if triangles.len() == MAX_TRIANGLES {
-                return Err(too_many(MAX_TRIANGLES + 1));
+                return Err(too_many(None));
             }
             let mut tri = [0usize; 3];
             for k in 0..3 {
@@ -223,8 +223,10 @@ fn parse_obj(bytes: &[u8]) -> Result<Parsed, String> {
     Ok((vertices, triangles))
 }
 
-fn too_many(n: usize) -> String {
-    let what = if n > MAX_TRIANGLES { format!("more than {MAX_TRIANGLES}") } else { n.to_string() };
+/// `count`: the exact number when known (a binary STL header), `None` when reading
+/// stopped at the limit.
+fn too_many(count: Option<usize>) -> String {
+    let what = count.map_or_else(|| format!("more than {MAX_TRIANGLES}"), |n| n.to_string());
     format!("has {what} triangles; at most {MAX_TRIANGLES} are supported (simplify the mesh)")
 }
 
@@ -238,7 +240,7 @@ fn finish(
         return Err("contains no triangles".to_string());
     }
     if triangles.len() > MAX_TRIANGLES {
-        return Err(too_many(triangles.len()));
+        return Err(too_many(Some(triangles.len())));
     }
     let mut vertices = Vec::with_capacity(vertices_mm.len());
     // Vertices are named by their coordinates: the readers renumber them, so an index
@@ -472,7 +474,18 @@ mod tests {
         let mut huge = tetra_binary(b"x");
         huge[80..84].copy_from_slice(&(MAX_TRIANGLES as u32 + 1).to_le_bytes());
         d.write("huge.stl", &huge);
-        assert!(err(&d, "huge.stl").contains("at most 200000"), "{}", err(&d, "huge.stl"));
+        assert!(
+            err(&d, "huge.stl").contains("has 200001 triangles; at most 200000"),
+            "{}",
+            err(&d, "huge.stl")
+        );
+        // an OBJ is counted while it is read
+        let mut many = String::from("v 0 0 0\nv 1 0 0\nv 0 1 0\n");
+        for _ in 0..=MAX_TRIANGLES {
+            many.push_str("f 1 2 3\n");
+        }
+        d.write("many.obj", many.as_bytes());
+        assert!(err(&d, "many.obj").contains("has more than 200000 triangles"), "{}", err(&d, "many.obj"));
         d.write("big.obj", TETRA_OBJ.as_bytes());
         let e = load_mesh(&d.0, "big.obj", 1e4).unwrap_err();
         assert!(e.contains("m across after scaling"), "{e}");

@@ -690,6 +690,9 @@ impl Checker {
         let min_fingers = c.min_fingers_in_contact as usize;
         let min_fingers = if min_fingers >= 1 && min_fingers <= n_fingers {
             Some(min_fingers)
+        } else if n_fingers == 0 {
+            // already reported at gripper.fingers; no range to give
+            None
         } else {
             self.push(
                 "criteria.min_fingers_in_contact",

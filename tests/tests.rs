@@ -2,3 +2,5 @@
 //! against references outside the project. One module per area.
 
 mod util;
+// Bad scene files: messages with line:column or field path, exit code 2, no panic.
+mod scene_errors;

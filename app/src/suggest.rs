@@ -1,7 +1,14 @@
-//! "Did you mean ...?" suggestions by Levenshtein distance.
+//! "Did you mean …?": the nearest valid name to a misspelt one (scene fields, variants,
+//! references, command-line names).
+//!
+//! Edit distance is the plain Levenshtein distance (insertions, deletions and
+//! substitutions, each costing one), computed over characters with the usual two-row
+//! dynamic programme. A candidate is suggested only when it is close enough that the
+//! suggestion is more likely help than noise: at most half the length of the longer of
+//! the two names. Field names carry unit suffixes (`_mm`, `_kpa`), so a name given
+//! without its suffix (`top_wall`) is at distance 3 from the right one and still passes.
 
-/// Edit distance between `a` and `b` (insertions, deletions, substitutions; V. I.
-/// Levenshtein, 1966), by the two-row dynamic programme.
+/// Levenshtein distance between `a` and `b`, in characters.
 pub fn levenshtein(a: &str, b: &str) -> usize {
     let b: Vec<char> = b.chars().collect();
     let mut prev: Vec<usize> = (0..=b.len()).collect();
@@ -9,44 +16,62 @@ pub fn levenshtein(a: &str, b: &str) -> usize {
     for (i, ca) in a.chars().enumerate() {
         cur[0] = i + 1;
         for (j, &cb) in b.iter().enumerate() {
-            let sub = prev[j] + usize::from(ca != cb);
-            cur[j + 1] = sub.min(prev[j + 1] + 1).min(cur[j] + 1);
+            let substitution = prev[j] + usize::from(ca != cb);
+            cur[j + 1] = substitution.min(prev[j + 1] + 1).min(cur[j] + 1);
         }
         std::mem::swap(&mut prev, &mut cur);
     }
     prev[b.len()]
 }
 
-/// The candidate nearest to `word`, if it is near enough to be a plausible typo (at most
-/// a third of the word's length in edits, and at least one).
-pub fn did_you_mean<'a>(word: &str, candidates: impl IntoIterator<Item = &'a str>) -> Option<&'a str> {
-    let limit = (word.chars().count() / 3).max(1);
-    candidates
-        .into_iter()
-        .map(|c| (levenshtein(&word.to_lowercase(), &c.to_lowercase()), c))
-        .filter(|(d, _)| *d <= limit)
-        .min_by_key(|(d, _)| *d)
-        .map(|(_, c)| c)
+/// The candidate nearest to `given`, if it is close enough to be worth suggesting.
+///
+/// Ties go to the candidate listed first. Comparison ignores ASCII case, so
+/// `wallpressure` finds `WallPressure`.
+pub fn nearest<'a, I>(given: &str, candidates: I) -> Option<&'a str>
+where
+    I: IntoIterator<Item = &'a str>,
+{
+    let given_lower = given.to_ascii_lowercase();
+    let mut best: Option<(usize, &'a str)> = None;
+    for c in candidates {
+        if c == given {
+            continue;
+        }
+        let d = levenshtein(&given_lower, &c.to_ascii_lowercase());
+        let limit = given.chars().count().max(c.chars().count()) / 2;
+        if d <= limit && best.is_none_or(|(bd, _)| d < bd) {
+            best = Some((d, c));
+        }
+    }
+    best.map(|(_, c)| c)
 }
 
 #[cfg(test)]
 mod tests {
     use super::*;
 
-    /// Textbook examples: kitten/sitting = 3, flaw/lawn = 2 (e.g. Wagner & Fischer,
-    /// "The string-to-string correction problem", J. ACM 21(1), 1974).
+    /// Textbook values: kitten → sitting is 3 (two substitutions, one insertion), and
+    /// the distance to the empty string is the length.
     #[test]
-    fn levenshtein_textbook_values() {
+    fn levenshtein_matches_textbook_cases() {
         assert_eq!(levenshtein("kitten", "sitting"), 3);
-        assert_eq!(levenshtein("flaw", "lawn"), 2);
         assert_eq!(levenshtein("", "abc"), 3);
+        assert_eq!(levenshtein("abc", ""), 3);
+        assert_eq!(levenshtein("flaw", "lawn"), 2);
         assert_eq!(levenshtein("same", "same"), 0);
+        // characters, not bytes: one substitution of a two-byte character
+        assert_eq!(levenshtein("größe", "grösse"), 2);
     }
 
     #[test]
-    fn suggests_only_plausible_typos() {
-        let c = ["top_wall_mm", "floor_mm", "side_wall_mm"];
-        assert_eq!(did_you_mean("top_wal_mm", c), Some("top_wall_mm"));
-        assert_eq!(did_you_mean("xyz", c), None);
+    fn nearest_finds_unit_suffix_and_typo_but_not_noise() {
+        let fields = ["chamber_width_mm", "top_wall_mm", "floor_mm", "under_layer_mm"];
+        assert_eq!(nearest("top_wal", fields), Some("top_wall_mm"));
+        assert_eq!(nearest("top_wall", fields), Some("top_wall_mm"));
+        assert_eq!(nearest("flor_mm", fields), Some("floor_mm"));
+        assert_eq!(nearest("colour", fields), None);
+        assert_eq!(nearest("wallpressure", ["Baseline", "WallPressure"]), Some("WallPressure"));
+        assert_eq!(nearest("f10", ["f100", "f80"]), Some("f100"));
     }
 }

@@ -16,7 +16,7 @@
 use ron::error::{Error, SpannedError};
 
 use super::locate::{Location, locate, tuple_element_names};
-use super::suggest::nearest;
+use crate::suggest::nearest;
 
 /// The variants a field of enum type accepts, for messages where RON does not list them.
 pub fn enum_variants_of_field(field: &str) -> Option<&'static [&'static str]> {

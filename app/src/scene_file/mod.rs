@@ -17,7 +17,6 @@
 mod diagnostics;
 mod locate;
 mod mesh;
-mod suggest;
 mod validate;
 
 #[cfg(test)]

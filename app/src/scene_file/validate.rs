@@ -26,7 +26,7 @@ use grasp_core::scene::{
 use grasp_core::section::{BoxSection, HalfRoundSection, SectionError, SectionModel, SectionProfile};
 
 use super::mesh::load_mesh;
-use super::suggest::nearest;
+use crate::suggest::nearest;
 use crate::scene_doc::{
     ActuatorDoc, CriteriaDoc, MaterialDoc, MaterialModelDoc, ObjectDoc, PalmDoc, SceneDoc, SectionDoc,
     SectionModelDoc, ShapeDoc,

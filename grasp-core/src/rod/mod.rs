@@ -34,7 +34,7 @@
 mod blocked;
 mod solve;
 
-pub use blocked::{BlockedForce, blocked_tip_force};
+pub use blocked::{BlockedForce, BlockedOutcome, blocked_force_curve, blocked_tip_force};
 pub use solve::{RodSolution, SolveReport, SolveStatus, solve};
 
 use crate::math::Vec2;

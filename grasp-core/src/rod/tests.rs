@@ -294,3 +294,38 @@ fn material_point_offsets_follow_the_section() {
     let tip = shape.tip();
     assert_relative_eq!(nodes.last().unwrap().x, tip.x, epsilon = 1e-14);
 }
+
+/// DESIGN 4.2's example actuator bends so far that its held branch ends: past about
+/// 54 kPa the tip, held on the axis, curls past the holder. The curve follows the branch
+/// up to the limit point and reports the pressures beyond it as such, with the force at
+/// the limit larger than every held force before it; it never reports a silent value.
+#[test]
+fn blocked_curve_stops_at_the_limit_point_of_the_held_branch() {
+    let a = demo_actuator();
+    let rod = Rod::of_actuator(&a, 48).unwrap();
+    let law = a.law(0.0, SectionModel::WallPressure);
+    let pressures: Vec<f64> = (0..=12).map(|i| 5e3 * i as f64).collect();
+    let curve = blocked_force_curve(&rod, &law, &pressures).unwrap();
+    let mut held_max: f64 = 0.0;
+    let mut saw_limit = false;
+    for (p, o) in pressures.iter().zip(&curve) {
+        match o {
+            BlockedOutcome::Held { force, report } => {
+                assert!(!saw_limit && report.converged());
+                assert!(*force >= held_max, "at {p}: {force} < {held_max}");
+                held_max = *force;
+            }
+            BlockedOutcome::BeyondLimit { limit_pressure, limit_force } => {
+                saw_limit = true;
+                assert!(*limit_pressure > 50e3 && *limit_pressure < *p, "{limit_pressure}");
+                assert!(*limit_force > held_max);
+            }
+            BlockedOutcome::NotConverged(r) => panic!("at {p}: {r:?}"),
+        }
+    }
+    assert!(saw_limit);
+    // and the held forces agree with independent single solves warm-started nowhere
+    let single = blocked_tip_force(&rod, &law.at_pressure(20e3), None).unwrap();
+    let BlockedOutcome::Held { force, .. } = &curve[4] else { panic!() };
+    assert_relative_eq!(*force, single.force, max_relative = 1e-9);
+}

@@ -2,3 +2,6 @@
 //! against references outside the project. One module per area.
 
 mod util;
+
+// `arcfinger fit`: material fits on Treloar's data, JSON contract, refusals of bad CSV.
+mod fit;

@@ -227,7 +227,8 @@ fn too_few_points_missing_file_and_unknown_model_exit_2() {
     let dir = TempDir::new("fit-usage");
     let few = dir.write("few.csv", "stretch,nominal_stress_kpa\n1.5,3\n2,5\n");
     let run = arcfinger(&["fit", few.to_str().unwrap(), "--model", "ogden2"]).expect_code(2);
-    assert!(run.stderr.contains("ogden2 has 4 parameters"), "{}", run.stderr);
+    assert!(run.stderr.contains("ogden2 has 4 parameter(s)"), "{}", run.stderr);
+    assert!(run.stderr.contains("few.csv"), "{}", run.stderr);
     let run = arcfinger(&["fit", "tests/data/no-such.csv", "--model", "ogden2"]).expect_code(2);
     assert!(run.stderr.contains("tests/data/no-such.csv"), "{}", run.stderr);
     let run = arcfinger(&["fit", "tests/data/treloar-1944-ut.csv", "--model", "ogden4"]).expect_code(2);

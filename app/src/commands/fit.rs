@@ -89,7 +89,7 @@ pub fn run(args: FitArgs) -> Result<Outcome, AppError> {
     let rows = data::read(&config.data)?;
     let file = config.data.display().to_string();
     let points: Vec<_> = rows.iter().map(|r| r.point).collect();
-    let result = fit(config.model, &points).map_err(|e| fit_error(&file, &rows, config.model, &e))?;
+    let result = fit(config.model, &points).map_err(|e| fit_error(&file, &rows, &e))?;
 
     let input = report::Input { file: &file, rows: &rows, model: config.model, result: &result };
     let density = config.density_g_cm3.unwrap_or(PLACEHOLDER_DENSITY_G_CM3);
@@ -102,8 +102,8 @@ pub fn run(args: FitArgs) -> Result<Outcome, AppError> {
     }
     let summary = report::summary(&input, &block, config.out.as_deref());
     if config.json == Some(Sink::Stdout) {
-        // stdout carries the JSON document alone
-        eprint!("{summary}");
+        // stdout carries the JSON document alone; a closed stderr is no reason to fail
+        let _ = std::io::Write::write_all(&mut std::io::stderr(), summary.as_bytes());
     } else {
         Sink::Stdout.write(summary.as_bytes())?;
     }
@@ -118,7 +118,7 @@ fn not_converged(result: &FitReport) -> AppError {
 }
 
 /// A core fit error as an input error naming the line of the point it concerns.
-fn fit_error(file: &str, rows: &[data::DataRow], model: FitModel, e: &FitError) -> AppError {
+fn fit_error(file: &str, rows: &[data::DataRow], e: &FitError) -> AppError {
     let line = |index: usize| rows.get(index).map_or(0, |r| r.line);
     match e {
         FitError::ZeroStress { index, stretch } => AppError::input(format!(
@@ -132,7 +132,7 @@ fn fit_error(file: &str, rows: &[data::DataRow], model: FitModel, e: &FitError) 
         FitError::NonFiniteStress { index, .. } => {
             AppError::input(format!("{file}:{}: expected a finite nominal stress", line(*index)))
         }
-        _ => AppError::input(format!("{file}: cannot fit {}: {e}", model.name())),
+        _ => AppError::input(format!("{file}: {e}")),
     }
 }
 
@@ -191,7 +191,7 @@ mod tests {
         let rows = data::parse("d.csv", b"stretch,nominal_stress_kpa\n1.5,2\n# c\n2.0,0\n").unwrap();
         let points: Vec<_> = rows.iter().map(|r| r.point).collect();
         let e = fit(FitModel::NeoHookean, &points).unwrap_err();
-        let msg = fit_error("d.csv", &rows, FitModel::NeoHookean, &e).to_string();
+        let msg = fit_error("d.csv", &rows, &e).to_string();
         assert!(msg.starts_with("d.csv:4: zero stress at stretch 2:"), "{msg}");
     }
 }

@@ -247,17 +247,19 @@ pub struct FitReport {
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 #[non_exhaustive]
 pub enum FitError {
-    /// Fewer usable points than the model has parameters. Points skipped at stretch 1
-    /// and points at stretch 1 (which no parameter can match) do not count.
+    /// Fewer distinct states than the model has parameters. A state is a (test,
+    /// stretch) pair with stretch other than 1: repeated measurements of one state add
+    /// no information about the shape of the curve, and at stretch 1 every model gives
+    /// zero stress whatever its parameters.
     #[error(
-        "{model} has {needed} parameters but the data hold only {got} point(s) with a stretch other than 1"
+        "{model} has {needed} parameter(s) but the data hold only {got} distinct stretch(es) other than 1 (each test counted separately)"
     )]
     TooFewPoints {
         /// Model name.
         model: &'static str,
         /// Parameters of the model.
         needed: usize,
-        /// Usable points in the data.
+        /// Distinct (test, stretch) states away from stretch 1 in the data.
         got: usize,
     },
     /// A stretch that is zero, negative, NaN or infinite.
@@ -343,7 +345,11 @@ pub fn fit(model: FitModel, data: &[TestPoint]) -> Result<FitReport, FitError> {
 pub fn fit_with(model: FitModel, data: &[TestPoint], settings: &FitSettings) -> Result<FitReport, FitError> {
     settings.validate()?;
     let rows = rows(data)?;
-    let usable = rows.iter().filter(|r| r.l1 != 1.0).count();
+    let mut states: Vec<(Deformation, f64)> =
+        rows.iter().filter(|r| r.l1 != 1.0).map(|r| (data[r.index].mode, r.l1)).collect();
+    states.sort_by(|a, b| a.0.cmp(&b.0).then(a.1.total_cmp(&b.1)));
+    states.dedup();
+    let usable = states.len();
     if usable < model.parameter_count() {
         return Err(FitError::TooFewPoints {
             model: model.name(),
@@ -1192,15 +1198,34 @@ mod tests {
         // a stretch-1 point with stress counts in the error but not as information
         let with_one = [uniaxial(1.0, 5.0), uniaxial(2.0, 1.0)];
         assert!(matches!(fit(FitModel::MooneyRivlin, &with_one), Err(FitError::TooFewPoints { got: 1, .. })));
+        // repeats of one state are one state: one-term Ogden's exponent would be free
+        let repeats = [uniaxial(2.0, 1.0), uniaxial(2.0, 1.1), uniaxial(2.0, 0.9)];
+        assert!(matches!(fit(FitModel::Ogden1, &repeats), Err(FitError::TooFewPoints { got: 1, .. })));
+        // the same stretch in two tests is two states
+        let two =
+            [uniaxial(2.0, 1.0), TestPoint { mode: Deformation::Planar, stretch: 2.0, nominal_stress: 1.1 }];
+        assert!(fit(FitModel::MooneyRivlin, &two).is_ok());
     }
 
+    /// Dependent columns are caught by the rank test instead of giving coefficients set
+    /// by rounding; independent ones solve to the exact line through three points
+    /// (`y = 1 + 2 x` at x = 0, 1, 2).
     #[test]
-    fn repeated_stretch_does_not_determine_mooney_rivlin() {
-        let data = [uniaxial(2.0, 1e3), uniaxial(2.0, 1.1e3), uniaxial(2.0, 0.9e3)];
-        assert_eq!(
-            fit(FitModel::MooneyRivlin, &data).unwrap_err(),
-            FitError::Underdetermined { model: "mooney-rivlin" }
-        );
+    fn least_squares_detects_dependent_columns_and_solves_independent_ones() {
+        let dependent = DMatrix::from_row_slice(3, 2, &[1.0, 2.0, 2.0, 4.0, 3.0, 6.0]);
+        let b = DVector::from_vec(vec![1.0, 2.0, 3.0]);
+        assert!(least_squares(&dependent, &b).is_none());
+        let line = DMatrix::from_row_slice(3, 2, &[1.0, 0.0, 1.0, 1.0, 1.0, 2.0]);
+        let y = DVector::from_vec(vec![1.0, 3.0, 5.0]);
+        let sol = least_squares(&line, &y).unwrap();
+        assert_relative_eq!(sol.c[0], 1.0, epsilon = 1e-14);
+        assert_relative_eq!(sol.c[1], 2.0, epsilon = 1e-14);
+        assert!(sol.r.amax() < 1e-14);
+        // a single stretch, fitted with Ogden, has no solvable start: every pair of
+        // exponents gives two proportional columns
+        let one_state = [uniaxial(2.0, 1e3), uniaxial(2.0, 1.1e3)];
+        let rows = rows(&one_state).unwrap();
+        assert!(project(&[2.0, -1.0], &rows).is_none());
     }
 
     /// Tension data with compressive (negative) stresses: the best neo-Hookean mu is

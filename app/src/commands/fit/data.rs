@@ -5,7 +5,7 @@
 //!
 //! | column | required | meaning |
 //! | --- | --- | --- |
-//! | `stretch` | yes | stretch along the load, `l > 0` (1 = unloaded) |
+//! | `stretch` | yes | stretch along the load, `0 < l <= 100` (1 = unloaded) |
 //! | `nominal_stress_kpa` or `nominal_stress_mpa` | exactly one | force over undeformed area |
 //! | `mode` | no | `uniaxial`, `planar` or `equibiaxial`; default `uniaxial` |
 //!
@@ -22,6 +22,10 @@ use crate::error::AppError;
 
 /// The column names this reader knows, in the order error messages list them.
 pub const COLUMNS: [&str; 4] = ["stretch", "nominal_stress_kpa", "nominal_stress_mpa", "mode"];
+
+/// Largest stretch accepted. Elastomers break well below it (casting silicones near
+/// 10, common practice); a larger value is almost always a strain in per cent.
+pub const MAX_STRETCH: f64 = 100.0;
 
 /// One data row: its line in the file and the point (SI).
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -118,6 +122,12 @@ pub fn parse(file: &str, bytes: &[u8]) -> Result<Vec<DataRow>, AppError> {
                 fields[layout.stretch]
             )));
         }
+        if stretch > MAX_STRETCH {
+            return Err(AppError::input(format!(
+                "{file}:{line}: column `stretch`: expected a stretch (deformed over original length, at most {MAX_STRETCH}), got `{}`; is the column a strain in per cent?",
+                fields[layout.stretch]
+            )));
+        }
         let column = layout.unit.column();
         let stress = number(file, line, column, &fields[layout.stress])? * layout.unit.to_pa();
         let mode = match layout.mode {
@@ -167,8 +177,13 @@ fn layout(file: &str, line: u64, header: &[String]) -> Result<Layout, AppError> 
             "nominal_stress_mpa" => &mut mpa,
             "mode" => &mut mode,
             _ => {
+                let hint = if raw.contains(';') || raw.contains('\t') {
+                    " (fields must be separated by commas)"
+                } else {
+                    ""
+                };
                 return Err(AppError::input(format!(
-                    "{file}:{line}: unknown column `{raw}`; valid columns are {}",
+                    "{file}:{line}: unknown column `{raw}`{hint}; valid columns are {}",
                     COLUMNS.join(", ")
                 )));
             }
@@ -267,6 +282,7 @@ mod tests {
         let e = err("stretch,stress_kpa\n1.5,3\n");
         assert!(e.starts_with("t.csv:1: unknown column `stress_kpa`"), "{e}");
         assert!(e.contains("stretch, nominal_stress_kpa, nominal_stress_mpa, mode"), "{e}");
+        assert!(err("stretch;nominal_stress_kpa\n1.5;3\n").contains("separated by commas"));
         assert!(err("stretch,Stretch,nominal_stress_kpa\n").contains("column `stretch` appears twice"));
         let e = err("nominal_stress_kpa\n3\n");
         assert!(e.starts_with("t.csv:1: missing column `stretch`"), "{e}");
@@ -288,6 +304,9 @@ mod tests {
         assert_eq!(e, "t.csv:3: column `stretch`: expected a stretch > 0 (1 = unloaded), got `0`");
         let e = err(&format!("{h}-1.5,3,uniaxial\n"));
         assert!(e.starts_with("t.csv:3: column `stretch`: expected a stretch > 0"), "{e}");
+        let e = err(&format!("{h}300,3,uniaxial\n"));
+        assert!(e.starts_with("t.csv:3: column `stretch`: expected a stretch"), "{e}");
+        assert!(e.contains("strain in per cent"), "{e}");
         let e = err(&format!("{h}1.5,3,shear\n"));
         assert_eq!(e, "t.csv:3: column `mode`: expected one of uniaxial, planar, equibiaxial, got `shear`");
         let e = err(&format!("{h}1.5,,uniaxial\n"));

@@ -49,8 +49,9 @@
 //! pseudo-inverses and nonlinear least squares problems whose variables separate", SIAM
 //! J. Numer. Anal. 10, 413–432 (1973). With `A(a)` the matrix of the linear terms
 //! (row `i` divided by `s_i`), `A = QR`, `c = A^+ 1` and the residual `r = A c - 1`, the
-//! exact Jacobian of `r` with respect to `a_k` is (Golub and Pereyra, eq. 4.1, with the
-//! structure that column `k` of `A` depends on `a_k` only)
+//! exact Jacobian of `r` with respect to `a_k` follows from their derivative of the
+//! projector `I - A A^+`, simplified here because column `k` of `A` depends on `a_k`
+//! only:
 //!
 //! `dr/da_k = c_k (I - Q Q^T) d_k - (d_k · r) Q R^-T e_k`, `d_k = dA e_k / da_k`.
 //!
@@ -71,9 +72,12 @@
 //! ([`FitError::NonPositiveModulus`]). It does not constrain the signs of the individual
 //! terms; it reports whether they satisfy a sufficient condition for stability at all
 //! stretches ([`FitReport::stable_by_term_signs`]): for Ogden every `mu_k a_k > 0`
-//! (Ogden 1984, section 4.4); for Mooney–Rivlin `C10 > 0`, `C01 >= 0` (the Ogden terms
-//! `a = 2, mu = 2 C10` and `a = -2, mu = -2 C01`); for Yeoh all `Ci0 >= 0`, which keeps
-//! `W1 > 0` and `W11 >= 0` for every `I1 >= 3`; always for neo-Hookean.
+//! (stated with the model, Ogden 1972; from memory); for Mooney–Rivlin `C10 > 0`,
+//! `C01 >= 0` (the same condition on the equivalent Ogden terms `a = 2, mu = 2 C10` and
+//! `a = -2, mu = -2 C01`); for Yeoh all `Ci0 >= 0`, which keeps `W1 > 0` and
+//! `W11 >= 0` for every `I1 >= 3` (a sufficient condition, from memory); always for
+//! neo-Hookean with `mu > 0`. A fit that fails it may still be stable over the stretches
+//! used: check with [`HyperelasticModel::check_planar_stability`].
 
 use nalgebra::{DMatrix, DVector};
 
@@ -945,7 +949,7 @@ mod tests {
     /// `2 (l - l^-2)(W1 + W2/l)` (uniaxial), `2 (l - l^-5)(W1 + l^2 W2)` (equibiaxial),
     /// `2 (l - l^-3)(W1 + W2)` (planar) (R. S. Rivlin and D. W. Saunders, Phil. Trans. R.
     /// Soc. A 243, 251–288, 1951; Treloar, "The Physics of Rubber Elasticity", 3rd ed.,
-    /// 1975, ch. 10). Yeoh's `W1` depends on `I1` only, so the same forms hold with
+    /// 1975). Yeoh's `W1` depends on `I1` only, so the same forms hold with
     /// `W1(I1)` and `W2 = 0`.
     fn invariant_closed_form(mode: Deformation, l: f64, w1: impl Fn(f64) -> f64, w2: f64) -> f64 {
         match mode {
@@ -974,7 +978,7 @@ mod tests {
         assert!(r.converged && r.stable_by_term_signs);
     }
 
-    /// Neo-Hookean uniaxial closed form `mu (l - l^-2)` (Treloar 1975, eq. 4.12a):
+    /// Neo-Hookean uniaxial closed form `mu (l - l^-2)` (Treloar 1975):
     /// at stretch 2 with mu = 1 it is 1.75 (shared/references).
     #[test]
     fn neo_hookean_fit_to_the_stretch_two_anchor() {

@@ -263,6 +263,10 @@ pub fn summary(input: &Input<'_>, block: &str, out: Option<&Path>) -> String {
         HyperelasticModel::Ogden(m) => {
             let _ =
                 writeln!(s, "Parameters  (W = sum mu_k/alpha_k (l1^alpha_k + l2^alpha_k + l3^alpha_k - 3))");
+            let _ = writeln!(
+                s,
+                "  (Ogden's own convention; codes that write 2 m_k/alpha_k^2 (...) take m_k = mu_k alpha_k / 2)"
+            );
             let _ = writeln!(s, "  {:>4}  {:>16}  {:>12}", "term", "mu_k (kPa)", "alpha_k");
             for (k, t) in m.terms().iter().enumerate() {
                 let _ = writeln!(

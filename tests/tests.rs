@@ -2,5 +2,10 @@
 //! against references outside the project. One module per area.
 
 mod util;
+
+// `arcfinger bend`: table, JSON contract, SVG plot on the demo scenes; usage errors.
+mod bend;
 // Bad scene files: messages with line:column or field path, exit code 2, no panic.
 mod scene_errors;
+// `arcfinger fit`: material fits on Treloar's data, JSON contract, refusals of bad CSV.
+mod fit;

@@ -25,6 +25,8 @@ pub enum Command {
     Bend(BendArgs),
     /// List the built-in casting-silicone classes and their parameters.
     Materials(MaterialsArgs),
+    /// Fit a hyperelastic model to stress-stretch test data (CSV) and print a material block.
+    Fit(FitArgs),
 }
 
 /// Which moment balance `bend` uses.
@@ -67,4 +69,55 @@ pub struct MaterialsArgs {
     /// Write the list as JSON to FILE (`-` = stdout).
     #[arg(long, value_name = "FILE")]
     pub json: Option<String>,
+}
+
+/// Hyperelastic models `fit` can fit (DESIGN 4.3 names).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum FitModelArg {
+    /// Neo-Hookean (mu).
+    #[value(name = "neo-hookean")]
+    NeoHookean,
+    /// Mooney-Rivlin (C10, C01).
+    #[value(name = "mooney-rivlin")]
+    MooneyRivlin,
+    /// Yeoh with C10, C20.
+    #[value(name = "yeoh2")]
+    Yeoh2,
+    /// Yeoh with C10, C20, C30.
+    #[value(name = "yeoh3")]
+    Yeoh3,
+    /// One-term Ogden.
+    #[value(name = "ogden1")]
+    Ogden1,
+    /// Two-term Ogden.
+    #[value(name = "ogden2")]
+    Ogden2,
+    /// Three-term Ogden.
+    #[value(name = "ogden3")]
+    Ogden3,
+}
+
+/// `arcfinger fit`.
+#[derive(Debug, Args)]
+pub struct FitArgs {
+    /// Test data (CSV): a header row naming `stretch` and `nominal_stress_kpa` (or
+    /// `nominal_stress_mpa`), optionally `mode` (uniaxial, planar, equibiaxial; default
+    /// uniaxial); `#` starts a comment line.
+    #[arg(value_name = "DATA.csv")]
+    pub data: PathBuf,
+    /// Model to fit.
+    #[arg(long, value_enum, value_name = "MODEL")]
+    pub model: FitModelArg,
+    /// Write the JSON result to FILE (`-` = stdout; the summary then goes to stderr).
+    #[arg(long, value_name = "FILE")]
+    pub json: Option<String>,
+    /// Name of the material block [default: fitted-MODEL].
+    #[arg(long, value_name = "NAME")]
+    pub name: Option<String>,
+    /// Write the material block alone to this file (a RON fragment for a scene's `materials`).
+    #[arg(long, value_name = "BLOCK.ron")]
+    pub out: Option<PathBuf>,
+    /// Density for the material block (g/cm3) [default: a placeholder, 1.07, marked as such].
+    #[arg(long, value_name = "X")]
+    pub density_g_cm3: Option<f64>,
 }

@@ -46,5 +46,6 @@ fn run(opts: cli::Opts) -> Result<Outcome, AppError> {
     match opts.command {
         cli::Command::Bend(args) => commands::bend::run(args),
         cli::Command::Materials(args) => commands::materials::run(args),
+        cli::Command::Fit(args) => commands::fit::run(args),
     }
 }

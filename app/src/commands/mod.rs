@@ -2,4 +2,5 @@
 //! and writes its reports.
 
 pub mod bend;
+pub mod fit;
 pub mod materials;

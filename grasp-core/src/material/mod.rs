@@ -24,6 +24,7 @@
 //! in `I1`, `I2`; `library.rs` the built-in casting-silicone classes; `fit.rs` the
 //! least-squares fit to test data.
 
+mod fit;
 mod invariants;
 mod library;
 mod mooney_rivlin;
@@ -31,6 +32,10 @@ mod neo_hookean;
 mod ogden;
 mod yeoh;
 
+pub use fit::{
+    FitError, FitModel, FitReport, FitSettings, OGDEN_MAX_EXPONENT, OGDEN_START_EXPONENTS, TestPoint, fit,
+    fit_with,
+};
 pub use library::{LibraryEntry, library, library_entry};
 pub use mooney_rivlin::MooneyRivlin;
 pub use neo_hookean::NeoHookean;

@@ -11,7 +11,9 @@ fn json(run: &crate::util::Run) -> serde_json::Value {
 #[test]
 fn every_demo_actuator_gives_table_json_and_plot() {
     let tmp = TempDir::new("bend-demo");
-    for (scene, actuator) in [("scenes/packing-line-3f.ron", "box-100"), ("scenes/packing-line-4f.ron", "round-90")] {
+    for (scene, actuator) in
+        [("scenes/packing-line-3f.ron", "box-100"), ("scenes/packing-line-4f.ron", "round-90")]
+    {
         let svg = tmp.path().join(format!("{actuator}.svg"));
         let table = arcfinger(&[
             "bend",
@@ -30,14 +32,17 @@ fn every_demo_actuator_gives_table_json_and_plot() {
         assert!(svg_text.starts_with("<svg") && svg_text.contains("blocked tip force (N)"));
         assert!(svg_text.matches("<circle").count() >= 18, "one marker per point and panel");
 
-        let run = arcfinger(&["bend", scene, "--actuator", actuator, "--pressures", "0:40:5", "--json", "-"]).expect_code(0);
+        let run = arcfinger(&["bend", scene, "--actuator", actuator, "--pressures", "0:40:5", "--json", "-"])
+            .expect_code(0);
         let doc = json(&run);
         assert_eq!(doc["format"], "arcfinger/bend/1");
         assert_eq!(doc["actuator"], actuator);
         assert_eq!(doc["model"], "wall-pressure");
         let points = doc["points"].as_array().unwrap();
         assert_eq!(points.len(), 9);
-        for key in ["pressure_kpa", "curvature_per_mm", "bend_deg", "tip_mm", "blocked_force_n", "max_stretch"] {
+        for key in
+            ["pressure_kpa", "curvature_per_mm", "bend_deg", "tip_mm", "blocked_force_n", "max_stretch"]
+        {
             assert!(points.iter().all(|p| !p[key].is_null()), "{key} missing");
         }
         // at zero pressure the finger is straight: tip on the axis at its full length
@@ -64,7 +69,14 @@ fn baseline_model_bends_less_than_the_wall_pressure_refinement() {
     // DESIGN 3.2: the refinement adds wall pressure that bends the finger further
     let get = |model: &str| {
         let run = arcfinger(&[
-            "bend", "scenes/packing-line-3f.ron", "--pressures", "30:30:1", "--section-model", model, "--json", "-",
+            "bend",
+            "scenes/packing-line-3f.ron",
+            "--pressures",
+            "30:30:1",
+            "--section-model",
+            model,
+            "--json",
+            "-",
         ])
         .expect_code(0);
         let doc = json(&run);
@@ -82,7 +94,10 @@ fn usage_errors_exit_2_and_say_what_is_expected() {
         (vec!["bend", "scenes/packing-line-3f.ron", "--pressures", "0:40"], "FROM:TO:STEP"),
         (vec!["bend", "scenes/packing-line-3f.ron", "--elements", "10"], "between 40 and"),
         (vec!["bend", "scenes/missing.ron"], "missing.ron"),
-        (vec!["bend", "scenes/packing-line-3f.ron", "--json", "scenes/packing-line-3f.ron"], "refusing to overwrite"),
+        (
+            vec!["bend", "scenes/packing-line-3f.ron", "--json", "scenes/packing-line-3f.ron"],
+            "refusing to overwrite",
+        ),
     ] {
         let run = arcfinger(&args).expect_code(2);
         assert!(run.stderr.contains(needle), "{args:?}: {}", run.stderr);

@@ -19,10 +19,6 @@ impl Outcome {
             Self::Fail => 1,
         }
     }
-    /// `Fail` if either is.
-    pub fn and(self, other: Outcome) -> Outcome {
-        if self == Self::Fail || other == Self::Fail { Self::Fail } else { Self::Pass }
-    }
 }
 
 /// Why a command could not produce its result.
@@ -88,7 +84,5 @@ mod tests {
         assert_eq!(AppError::input("x").exit_code(), 2);
         assert_eq!(AppError::io("x", std::io::Error::other("y")).exit_code(), 2);
         assert_eq!(AppError::NotConverged("x".into()).exit_code(), 3);
-        assert_eq!(Outcome::Pass.and(Outcome::Fail), Outcome::Fail);
-        assert_eq!(Outcome::Pass.and(Outcome::Pass), Outcome::Pass);
     }
 }

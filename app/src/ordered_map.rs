@@ -33,14 +33,6 @@ impl<T> OrderedMap<T> {
     pub fn keys(&self) -> impl Iterator<Item = &str> {
         self.0.iter().map(|(k, _)| k.as_str())
     }
-    /// Number of entries.
-    pub fn len(&self) -> usize {
-        self.0.len()
-    }
-    /// No entries.
-    pub fn is_empty(&self) -> bool {
-        self.0.is_empty()
-    }
 }
 
 impl<T: Serialize> Serialize for OrderedMap<T> {

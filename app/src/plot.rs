@@ -33,23 +33,19 @@ pub fn bend_svg(doc: &BendDoc) -> Result<String, String> {
         root.fill(&WHITE).map_err(|e| e.to_string())?;
         let (top, bottom) = root.split_vertically(360);
         let (p_lo, p_hi) = range(doc.points.iter().map(|p| p.pressure_kpa));
-        let panels: [(&plotters::drawing::DrawingArea<SVGBackend, plotters::coord::Shift>, &str, RGBColor, Vec<(f64, f64)>); 2] = [
-            (
-                &top,
-                "bend angle (deg)",
-                BLUE,
-                doc.points.iter().filter_map(|p| p.bend_deg.map(|b| (p.pressure_kpa, b))).collect(),
-            ),
-            (
-                &bottom,
-                "blocked tip force (N)",
-                VERMILLION,
-                doc.points.iter().filter_map(|p| p.blocked_force_n.map(|f| (p.pressure_kpa, f))).collect(),
-            ),
-        ];
+        let bend: Vec<(f64, f64)> =
+            doc.points.iter().filter_map(|p| p.bend_deg.map(|b| (p.pressure_kpa, b))).collect();
+        let force: Vec<(f64, f64)> =
+            doc.points.iter().filter_map(|p| p.blocked_force_n.map(|f| (p.pressure_kpa, f))).collect();
+        let panels =
+            [(&top, "bend angle (deg)", BLUE, bend), (&bottom, "blocked tip force (N)", VERMILLION, force)];
         for (i, (area, label, colour, data)) in panels.into_iter().enumerate() {
             let (y_lo, y_hi) = range(data.iter().map(|d| d.1));
-            let caption = if i == 0 { format!("actuator \"{}\" ({} model)", doc.actuator, doc.model) } else { String::new() };
+            let caption = if i == 0 {
+                format!("actuator \"{}\" ({} model)", doc.actuator, doc.model)
+            } else {
+                String::new()
+            };
             let mut chart = ChartBuilder::on(area)
                 .caption(caption, ("sans-serif", 18))
                 .margin(12)
@@ -63,7 +59,9 @@ pub fn bend_svg(doc: &BendDoc) -> Result<String, String> {
                 .y_desc(label)
                 .draw()
                 .map_err(|e| e.to_string())?;
-            chart.draw_series(LineSeries::new(data.iter().copied(), colour.stroke_width(2))).map_err(|e| e.to_string())?;
+            chart
+                .draw_series(LineSeries::new(data.iter().copied(), colour.stroke_width(2)))
+                .map_err(|e| e.to_string())?;
             chart
                 .draw_series(data.iter().map(|&(x, y)| Circle::new((x, y), 3, colour.filled())))
                 .map_err(|e| e.to_string())?;

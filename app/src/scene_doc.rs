@@ -294,7 +294,7 @@ mod tests {
     fn design_example_parses() {
         let text = include_str!("../../tests/data/design-example.ron");
         let doc: SceneDoc = ron::from_str(text).unwrap();
-        assert_eq!(doc.actuators.len(), 1);
+        assert_eq!(doc.actuators.keys().count(), 1);
         assert_eq!(doc.gripper.fingers.len(), 3);
         assert_eq!(doc.materials.get("soft-00-30").unwrap().density_g_cm3, 1.07);
         assert_eq!(doc.criteria.sweep_kpa, Some((0.0, 60.0, 2.5)));

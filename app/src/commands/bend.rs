@@ -71,7 +71,10 @@ pub fn parse_pressures(text: &str) -> Result<Vec<f64>, String> {
     }
     let n = ((b - a) / step + 1e-9).floor();
     if n + 1.0 > MAX_PRESSURES as f64 {
-        return Err(format!("--pressures: {a}:{b}:{step} gives {} pressures, more than the limit of {MAX_PRESSURES}", n + 1.0));
+        return Err(format!(
+            "--pressures: {a}:{b}:{step} gives {} pressures, more than the limit of {MAX_PRESSURES}",
+            n + 1.0
+        ));
     }
     Ok((0..=n as usize).map(|i| a + step * i as f64).collect())
 }
@@ -84,7 +87,9 @@ impl Config {
             Some(name) => scene.actuator(name).cloned().ok_or_else(|| {
                 AppError::input(format!(
                     "--actuator: no actuator \"{name}\" in {origin}{} (defined: {})",
-                    nearest(name, names.iter().copied()).map(|s| format!("; did you mean \"{s}\"?")).unwrap_or_default(),
+                    nearest(name, names.iter().copied())
+                        .map(|s| format!("; did you mean \"{s}\"?"))
+                        .unwrap_or_default(),
                     names.join(", ")
                 ))
             })?,
@@ -100,7 +105,9 @@ impl Config {
         let rated_kpa = actuator.max_pressure / 1e3;
         let pressures_kpa = match &args.pressures {
             Some(text) => parse_pressures(text).map_err(AppError::Input)?,
-            None => parse_pressures(&format!("0:{rated_kpa}:{}", rated_kpa / 20.0)).map_err(AppError::Input)?,
+            None => {
+                parse_pressures(&format!("0:{rated_kpa}:{}", rated_kpa / 20.0)).map_err(AppError::Input)?
+            }
         };
         if let Some(top) = pressures_kpa.iter().copied().find(|&p| p > rated_kpa * (1.0 + 1e-12)) {
             return Err(AppError::input(format!(
@@ -191,7 +198,12 @@ pub struct BlockedLimit {
 }
 
 /// Computes the curve (no I/O).
-pub fn compute(actuator: &Actuator, pressures_kpa: &[f64], model: SectionModel, elements: usize) -> Result<BendDoc, AppError> {
+pub fn compute(
+    actuator: &Actuator,
+    pressures_kpa: &[f64],
+    model: SectionModel,
+    elements: usize,
+) -> Result<BendDoc, AppError> {
     let named = |e: &dyn std::fmt::Display| AppError::input(format!("actuator \"{}\": {e}", actuator.name));
     let rod = Rod::of_actuator(actuator, elements).map_err(|e| named(&e))?;
     let mut points = Vec::with_capacity(pressures_kpa.len());
@@ -218,7 +230,8 @@ pub fn compute(actuator: &Actuator, pressures_kpa: &[f64], model: SectionModel, 
                 point.break_utilisation = Some(free.break_utilisation);
                 if free.break_utilisation >= 1.0 {
                     point.status = "over-break";
-                    point.note = Some(format!("wall stretch {:.3} reaches the stretch at break", free.max_stretch));
+                    point.note =
+                        Some(format!("wall stretch {:.3} reaches the stretch at break", free.max_stretch));
                 }
                 free_states.push((i, free));
             }
@@ -226,7 +239,12 @@ pub fn compute(actuator: &Actuator, pressures_kpa: &[f64], model: SectionModel, 
                 point.status = "out-of-range";
                 point.note = Some(e.to_string());
             }
-            Err(e) => return Err(AppError::NotConverged(format!("actuator \"{}\" at {p_kpa} kPa: {e}", actuator.name))),
+            Err(e) => {
+                return Err(AppError::NotConverged(format!(
+                    "actuator \"{}\" at {p_kpa} kPa: {e}",
+                    actuator.name
+                )));
+            }
         }
         points.push(point);
     }
@@ -292,8 +310,8 @@ pub fn table(doc: &BendDoc, actuator: &Actuator) -> String {
     );
     let _ = writeln!(
         s,
-        "{:>9} {:>11} {:>9} {:>9} {:>9} {:>10} {:>9} {:>7}  {}",
-        "p (kPa)", "k (1/mm)", "bend (°)", "u (mm)", "w (mm)", "F_blk (N)", "stretch", "break", "status"
+        "{:>9} {:>11} {:>9} {:>9} {:>9} {:>10} {:>9} {:>7}  status",
+        "p (kPa)", "k (1/mm)", "bend (°)", "u (mm)", "w (mm)", "F_blk (N)", "stretch", "break"
     );
     for p in &doc.points {
         let (u, w) = p.tip_mm.map_or((None, None), |t| (Some(t[0]), Some(t[1])));
@@ -326,7 +344,8 @@ pub fn run(args: BendArgs) -> Result<Outcome, AppError> {
     let cfg = Config::new(args, scene)?;
     let doc = compute(&cfg.actuator, &cfg.pressures_kpa, cfg.model, cfg.elements)?;
     if let Some(plot) = &cfg.plot {
-        let svg = crate::plot::bend_svg(&doc).map_err(|e| AppError::input(format!("drawing {}: {e}", plot.display())))?;
+        let svg = crate::plot::bend_svg(&doc)
+            .map_err(|e| AppError::input(format!("drawing {}: {e}", plot.display())))?;
         crate::output::write_atomic(plot, svg.as_bytes())?;
     }
     match &cfg.json {
@@ -346,7 +365,11 @@ pub fn run(args: BendArgs) -> Result<Outcome, AppError> {
             doc.actuator
         )));
     }
-    Ok(if doc.points.iter().all(|p| matches!(p.status, "ok" | "beyond-limit")) { Outcome::Pass } else { Outcome::Fail })
+    Ok(if doc.points.iter().all(|p| matches!(p.status, "ok" | "beyond-limit")) {
+        Outcome::Pass
+    } else {
+        Outcome::Fail
+    })
 }
 
 #[cfg(test)]
@@ -391,7 +414,11 @@ mod curve_tests_support {
         Actuator::new(
             "f100",
             "soft-00-30",
-            Material { model: HyperelasticModel::Yeoh(Yeoh::new(12e3, 0.4e3, 0.0).unwrap()), density: 1070.0, stretch_at_break: 10.0 },
+            Material {
+                model: HyperelasticModel::Yeoh(Yeoh::new(12e3, 0.4e3, 0.0).unwrap()),
+                density: 1070.0,
+                stretch_at_break: 10.0,
+            },
             SectionProfile::Box(BoxSection::new(12e-3, 10e-3, 3e-3, 3e-3, 3e-3, 1e-3).unwrap()),
             0.09,
             0.005,
@@ -442,7 +469,8 @@ mod limit_tests {
     /// blocked-curve test) the points say so and carry no force; the run still passes.
     #[test]
     fn pressures_past_the_limit_point_are_reported_as_such() {
-        let doc = compute(&f100(), &parse_pressures("40:60:5").unwrap(), SectionModel::WallPressure, 48).unwrap();
+        let doc =
+            compute(&f100(), &parse_pressures("40:60:5").unwrap(), SectionModel::WallPressure, 48).unwrap();
         let lim = doc.blocked_limit.expect("a limit point in 40..60 kPa");
         assert!(lim.pressure_kpa > 50.0 && lim.pressure_kpa < 55.0);
         for p in &doc.points {

@@ -26,11 +26,11 @@ use grasp_core::scene::{
 use grasp_core::section::{BoxSection, HalfRoundSection, SectionError, SectionModel, SectionProfile};
 
 use super::mesh::load_mesh;
-use crate::suggest::nearest;
 use crate::scene_doc::{
     ActuatorDoc, CriteriaDoc, MaterialDoc, MaterialModelDoc, ObjectDoc, PalmDoc, SceneDoc, SectionDoc,
     SectionModelDoc, ShapeDoc,
 };
+use crate::suggest::nearest;
 
 /// Longest length, radius, thickness or coordinate a scene may give (mm): 10 m.
 pub const MAX_LENGTH_MM: f64 = 10_000.0;

@@ -236,6 +236,18 @@ impl StrainEnergy for HyperelasticModel {
     fn shear_modulus(&self) -> f64 {
         self.inner().shear_modulus()
     }
+    fn planar_stress(&self, l: f64) -> f64 {
+        match self {
+            Self::Ogden(m) => m.planar_stress(l),
+            _ => self.stress_1(l, 1.0),
+        }
+    }
+    fn planar_tangent(&self, l: f64) -> f64 {
+        match self {
+            Self::Ogden(m) => m.planar_tangent(l),
+            _ => self.stress_1_d1(l, 1.0),
+        }
+    }
 }
 
 /// A rubber: its constitutive model plus the data a fabrication and a failure check need.

@@ -30,7 +30,11 @@ const CONTINUATION: [f64; 4] = [0.25, 0.5, 0.75, 1.0];
 ///
 /// # Errors
 /// As [`solve`].
-pub fn blocked_tip_force(rod: &Rod, law: &SectionLaw, initial: Option<&[f64]>) -> Result<BlockedForce, RodError> {
+pub fn blocked_tip_force(
+    rod: &Rod,
+    law: &SectionLaw,
+    initial: Option<&[f64]>,
+) -> Result<BlockedForce, RodError> {
     let hold = [PointConstraint {
         point: MaterialPoint { s: rod.length(), y: 0.0 },
         direction: Vec2::X,
@@ -92,7 +96,11 @@ const LIMIT_SLOPE_FACTOR: f64 = 3.0;
 ///
 /// # Errors
 /// As [`solve`].
-pub fn blocked_force_curve(rod: &Rod, law: &SectionLaw, pressures: &[f64]) -> Result<Vec<BlockedOutcome>, RodError> {
+pub fn blocked_force_curve(
+    rod: &Rod,
+    law: &SectionLaw,
+    pressures: &[f64],
+) -> Result<Vec<BlockedOutcome>, RodError> {
     // (pressure, force, angles) of the last held state, and the one before it
     let mut last: (f64, f64, Vec<f64>) = (0.0, 0.0, vec![0.0; rod.dofs()]);
     let mut before: Option<(f64, f64)> = None;

@@ -149,7 +149,12 @@ impl Rod {
     ///
     /// # Errors
     /// Non-finite or negative lengths, a non-positive chamber, or no elements.
-    pub fn new(base_length: f64, chamber_length: f64, tip_length: f64, elements: usize) -> Result<Self, RodError> {
+    pub fn new(
+        base_length: f64,
+        chamber_length: f64,
+        tip_length: f64,
+        elements: usize,
+    ) -> Result<Self, RodError> {
         if !(base_length.is_finite() && base_length >= 0.0 && tip_length.is_finite() && tip_length >= 0.0) {
             return Err(RodError::BadGeometry("base and tip lengths must be finite and >= 0"));
         }

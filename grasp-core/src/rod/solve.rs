@@ -13,7 +13,9 @@
 
 use nalgebra::{DMatrix, DVector};
 
-use super::{MaterialPoint, MomentLaw, PointConstraint, PointLoad, Rod, RodError, Segment, direction, section_up};
+use super::{
+    MaterialPoint, MomentLaw, PointConstraint, PointLoad, Rod, RodError, Segment, direction, section_up,
+};
 use crate::math::Vec2;
 
 /// Relative equilibrium residual required (DESIGN 3.3).
@@ -149,7 +151,11 @@ fn sinc_derivatives(u: f64) -> (f64, f64, f64) {
     }
 }
 
-pub(crate) fn point_derivatives(rod: &Rod, angles: &[f64], p: MaterialPoint) -> Result<PointDerivatives, RodError> {
+pub(crate) fn point_derivatives(
+    rod: &Rod,
+    angles: &[f64],
+    p: MaterialPoint,
+) -> Result<PointDerivatives, RodError> {
     let h = rod.element_length();
     let mut out = PointDerivatives::default();
     let angle = |j: usize| if j == 0 { 0.0 } else { angles[j - 1] };
@@ -288,7 +294,9 @@ impl Problem<'_> {
                 return (it, Ok(()));
             }
             let Some(jm) = e.jacobian.take() else { return (it, Err(SolveStatus::Singular)) };
-            let Some(mut dz) = jm.lu().solve(&(-&e.residual)) else { return (it + 1, Err(SolveStatus::Singular)) };
+            let Some(mut dz) = jm.lu().solve(&(-&e.residual)) else {
+                return (it + 1, Err(SolveStatus::Singular));
+            };
             let big = dz.rows(0, nd).amax();
             if !big.is_finite() {
                 return (it + 1, Err(SolveStatus::Singular));
@@ -317,7 +325,11 @@ impl Problem<'_> {
                 None => return (it + 1, Err(SolveStatus::Stalled)),
             }
         }
-        if self.converged(&e) { (budget.min(MAX_NEWTON_PER_STEP), Ok(())) } else { (budget.min(MAX_NEWTON_PER_STEP), Err(SolveStatus::IterationLimit)) }
+        if self.converged(&e) {
+            (budget.min(MAX_NEWTON_PER_STEP), Ok(()))
+        } else {
+            (budget.min(MAX_NEWTON_PER_STEP), Err(SolveStatus::IterationLimit))
+        }
     }
 }
 
@@ -361,9 +373,14 @@ pub fn solve(
         }
         z.rows_mut(0, nd).copy_from_slice(init);
     }
-    let (m0, dm0) = law.moment(0.0).map_err(|_| RodError::BadInput("the moment law is undefined at zero curvature"))?;
+    let (m0, dm0) =
+        law.moment(0.0).map_err(|_| RodError::BadInput("the moment law is undefined at zero curvature"))?;
     let force_sum: f64 = loads.iter().map(|l| l.force.length()).sum();
-    let moment_scale = m0.abs().max(rod.length() * force_sum).max(dm0.abs() * 1e-3 / rod.chamber_length).max(f64::MIN_POSITIVE);
+    let moment_scale = m0
+        .abs()
+        .max(rod.length() * force_sum)
+        .max(dm0.abs() * 1e-3 / rod.chamber_length)
+        .max(f64::MIN_POSITIVE);
     let problem = Problem { rod, law, loads, constraints, moment_scale };
 
     let mut t_done: f64 = 0.0;
@@ -401,7 +418,8 @@ pub fn solve(
     }
     // final report at full load (or the last accepted state if not reached)
     let e = problem.evaluate(&z, 1.0, false);
-    let (residual, constraint_residual) = e.as_ref().map_or((f64::INFINITY, f64::INFINITY), |e| (e.eq_norm, e.con_norm));
+    let (residual, constraint_residual) =
+        e.as_ref().map_or((f64::INFINITY, f64::INFINITY), |e| (e.eq_norm, e.con_norm));
     if status == SolveStatus::Converged && !e.as_ref().is_some_and(|e| problem.converged(e)) {
         status = SolveStatus::Stalled;
     }

@@ -181,7 +181,11 @@ fn invert_law(law: &crate::section::SectionLaw, target: f64, guess: f64) -> f64 
         if r.abs() < 1e-15 {
             break;
         }
-        if r > 0.0 { hi = k } else { lo = k }
+        if r > 0.0 {
+            hi = k
+        } else {
+            lo = k
+        }
         let n = k - r / dm;
         k = if n > lo && n < hi { n } else { 0.5 * (lo + hi) };
     }

@@ -74,8 +74,9 @@ impl HalfRoundSection {
     /// Bands for the floor and under-layer, a polar tensor rule for the curved wall.
     pub fn quadrature(&self, n: usize) -> SectionQuadrature {
         let rule = GaussLegendre::new(n);
-        // the angle direction carries more variation than the thin radius direction
-        let rule_theta = GaussLegendre::new(2 * n);
+        // the wall is thin: the integrand varies little across it, more along the angle
+        let rule_r = GaussLegendre::new(n.div_ceil(2).max(1));
+        let rule_theta = GaussLegendre::new((3 * n).div_ceil(2));
         let (a, t, tf) = (self.radius, self.wall, self.floor);
         let r_out = self.outer_radius();
         let mut rubber: Vec<SectionPoint> = Vec::new();
@@ -85,7 +86,7 @@ impl HalfRoundSection {
         push_band(&mut pressure, &rule, 0.0, tf, 2.0 * a, |y| y / tf);
         // theta over [0, pi/2] and doubled by symmetry about the vertical axis
         for (th, wth) in rule_theta.on_interval(0.0, 0.5 * PI) {
-            for (r, wr) in rule.on_interval(a, r_out) {
+            for (r, wr) in rule_r.on_interval(a, r_out) {
                 let y = tf + r * th.sin();
                 let da = 2.0 * wth * wr * r;
                 rubber.push(SectionPoint { y, weight: da });

@@ -403,44 +403,14 @@ mod tests {
 }
 
 #[cfg(test)]
-mod curve_tests_support {
-    use super::*;
-    use grasp_core::actuator::Fiber;
-    use grasp_core::material::{HyperelasticModel, Material, Yeoh};
-    use grasp_core::section::{BoxSection, SectionProfile};
-
-    /// DESIGN 4.2's example actuator "f100".
-    pub fn f100() -> Actuator {
-        Actuator::new(
-            "f100",
-            "soft-00-30",
-            Material {
-                model: HyperelasticModel::Yeoh(Yeoh::new(12e3, 0.4e3, 0.0).unwrap()),
-                density: 1070.0,
-                stretch_at_break: 10.0,
-            },
-            SectionProfile::Box(BoxSection::new(12e-3, 10e-3, 3e-3, 3e-3, 3e-3, 1e-3).unwrap()),
-            0.09,
-            0.005,
-            0.005,
-            Fiber { pitch: 4e-3, width: 1.5e-3 },
-            60e3,
-            SectionModel::WallPressure,
-        )
-        .unwrap()
-    }
-}
-
-#[cfg(test)]
 mod curve_tests {
-    use super::curve_tests_support::f100;
     use super::*;
 
     /// The curve is consistent with the core's free bending at every point, bends
     /// monotonically, and the blocked force grows with pressure from zero.
     #[test]
     fn curve_matches_core_free_bending_and_grows() {
-        let a = f100();
+        let a = Actuator::example();
         let pressures = parse_pressures("0:50:5").unwrap();
         let doc = compute(&a, &pressures, SectionModel::WallPressure, 48).unwrap();
         assert_eq!(doc.points.len(), 11);
@@ -462,15 +432,19 @@ mod curve_tests {
 
 #[cfg(test)]
 mod limit_tests {
-    use super::curve_tests_support::f100;
     use super::*;
 
     /// Past the held branch's limit point (about 54 kPa for this actuator, see the core's
     /// blocked-curve test) the points say so and carry no force; the run still passes.
     #[test]
     fn pressures_past_the_limit_point_are_reported_as_such() {
-        let doc =
-            compute(&f100(), &parse_pressures("40:60:5").unwrap(), SectionModel::WallPressure, 48).unwrap();
+        let doc = compute(
+            &Actuator::example(),
+            &parse_pressures("40:60:5").unwrap(),
+            SectionModel::WallPressure,
+            48,
+        )
+        .unwrap();
         let lim = doc.blocked_limit.expect("a limit point in 40..60 kPa");
         assert!(lim.pressure_kpa > 50.0 && lim.pressure_kpa < 55.0);
         for p in &doc.points {

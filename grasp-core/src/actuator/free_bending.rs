@@ -204,25 +204,12 @@ impl FreeBending {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::actuator::Fiber;
-    use crate::material::{HyperelasticModel, Material, NeoHookean, Yeoh};
+    use crate::material::{HyperelasticModel, NeoHookean, Yeoh};
     use crate::section::{BoxSection, HalfRoundSection, SectionModel, SectionProfile};
     use approx::assert_relative_eq;
 
     fn actuator(section: SectionProfile, model: HyperelasticModel) -> Actuator {
-        Actuator::new(
-            "t",
-            "m",
-            Material { model, density: 1070.0, stretch_at_break: 10.0 },
-            section,
-            0.09,
-            0.005,
-            0.005,
-            Fiber { pitch: 4e-3, width: 1.5e-3 },
-            60e3,
-            SectionModel::WallPressure,
-        )
-        .unwrap()
+        Actuator::example_with(section, model)
     }
 
     fn example_box() -> BoxSection {

@@ -11,8 +11,8 @@ mod free_bending;
 
 pub use free_bending::{BendError, FreeBending, free_curvature};
 
-use crate::material::Material;
-use crate::section::{SectionLaw, SectionModel, SectionProfile, SectionQuadrature};
+use crate::material::{HyperelasticModel, Material, Yeoh};
+use crate::section::{BoxSection, SectionLaw, SectionModel, SectionProfile, SectionQuadrature};
 
 /// Gauss points per band of the section quadrature (converged to 1e-10, see the
 /// section-law tests).
@@ -128,6 +128,35 @@ impl Actuator {
             section_model,
             quadrature,
         })
+    }
+
+    /// The example actuator `"f100"` of the scene example in the design notes (values
+    /// invented): Yeoh rubber `C10 = 12 kPa`, `C20 = 0.4 kPa`, stretch at break 10; a Box
+    /// section with a 12 × 10 mm chamber, 3 mm walls, top and floor and a 1 mm under-layer;
+    /// 90 mm chamber, 5 mm base and tip; fiber pitch 4 mm; rated 60 kPa. For examples,
+    /// tests and benchmarks.
+    pub fn example() -> Self {
+        let section =
+            BoxSection::new(12e-3, 10e-3, 3e-3, 3e-3, 3e-3, 1e-3).unwrap_or_else(|_| unreachable!());
+        let rubber = Yeoh::new(12e3, 0.4e3, 0.0).unwrap_or_else(|_| unreachable!());
+        Self::example_with(SectionProfile::Box(section), HyperelasticModel::Yeoh(rubber))
+    }
+
+    /// [`Actuator::example`]'s lengths, fiber and rating with another section and rubber.
+    pub fn example_with(section: SectionProfile, model: HyperelasticModel) -> Self {
+        Self::new(
+            "f100",
+            "example rubber",
+            Material { model, density: 1070.0, stretch_at_break: 10.0 },
+            section,
+            0.09,
+            0.005,
+            0.005,
+            Fiber { pitch: 4e-3, width: 1.5e-3 },
+            60e3,
+            SectionModel::WallPressure,
+        )
+        .unwrap_or_else(|_| unreachable!("the example's lengths are valid"))
     }
 
     /// Total length clamp to tip (m).

@@ -1,30 +1,13 @@
 //! Validation of the rod against closed forms and published tables (DESIGN 3.3).
 
 use super::*;
-use crate::actuator::{Actuator, Fiber};
+use crate::actuator::Actuator;
 use crate::kinematics::FingerShape;
-use crate::material::{HyperelasticModel, Material, Yeoh};
-use crate::section::{BoxSection, SectionModel, SectionProfile};
+use crate::section::SectionModel;
 use approx::assert_relative_eq;
 
 fn demo_actuator() -> Actuator {
-    Actuator::new(
-        "t",
-        "m",
-        Material {
-            model: HyperelasticModel::Yeoh(Yeoh::new(12e3, 0.4e3, 0.0).unwrap()),
-            density: 1070.0,
-            stretch_at_break: 10.0,
-        },
-        SectionProfile::Box(BoxSection::new(12e-3, 10e-3, 3e-3, 3e-3, 3e-3, 1e-3).unwrap()),
-        0.09,
-        0.005,
-        0.005,
-        Fiber { pitch: 4e-3, width: 1.5e-3 },
-        60e3,
-        SectionModel::WallPressure,
-    )
-    .unwrap()
+    Actuator::example()
 }
 
 /// DESIGN 3.3 (a): with no load the rod reproduces the free bending of DESIGN 3.2: every

@@ -106,3 +106,29 @@ fn usage_errors_exit_2_and_say_what_is_expected() {
     let text = std::fs::read_to_string(repo("scenes/packing-line-3f.ron")).unwrap();
     assert!(text.starts_with("// Demo scene"));
 }
+
+/// End to end through the scene file's units (mm, kPa → SI → 1/mm): DESIGN 4.2's example
+/// actuator "f100" at 10 Pa bends as Euler–Bernoulli with the plane-strain modulus
+/// `4 mu` predicts (closed form, wall-pressure balance of DESIGN 3.2):
+/// `kappa = p (A_c ybar_c + J) / (4 mu I)`, with `mu = 2 C10 = 24 kPa`, `I` the second
+/// moment of the rubber about the layer and `J` the first moment of the wall-pressure
+/// profile. Section (mm): chamber 12 × 10, walls 3, floor 3, under-layer 1.
+#[test]
+fn example_scene_small_pressure_curvature_matches_euler_bernoulli() {
+    let run =
+        arcfinger(&["bend", "tests/data/design-example.ron", "--pressures", "0.01:0.01:1", "--json", "-"])
+            .expect_code(0);
+    let k_per_mm = json(&run)["points"][0]["curvature_per_mm"].as_f64().unwrap();
+    let (wc, hc, ts, tt, tf, tu) = (12.0f64, 10.0f64, 3.0f64, 3.0f64, 3.0f64, 1.0f64); // mm
+    let (y1, y2, y3) = (tf, tf + hc, tf + hc + tt);
+    let b = wc + 2.0 * ts;
+    let cube = |y: f64| y.powi(3) / 3.0;
+    let i = b * (cube(y3) + cube(tu)) - wc * (cube(y2) - cube(y1)); // mm^4
+    let j = wc / tt * (y3 * (y3 * y3 - y2 * y2) / 2.0 - (y3.powi(3) - y2.powi(3)) / 3.0)
+        + ts * (y2 * y2 - y1 * y1) / 2.0
+        + wc * tf * tf / 3.0; // mm^3
+    let ac_y = wc * hc * (tf + hc / 2.0); // mm^3
+    let (p, mu) = (0.01e-3, 24e-3); // N/mm^2 (MPa)
+    let expected = p * (ac_y + j) / (4.0 * mu * i); // 1/mm
+    assert!((k_per_mm / expected - 1.0).abs() < 1e-3, "{k_per_mm} vs {expected}");
+}

@@ -175,25 +175,36 @@ fn invert_law(law: &crate::section::SectionLaw, target: f64, guess: f64) -> f64 
     k
 }
 
-/// Integrates from the tip (s = S) back to the clamp with unknowns F and phi at the tip;
-/// returns F after Newton on the two clamp conditions (finite-difference Jacobian).
-fn shoot_blocked(a: &Actuator, law: &crate::section::SectionLaw, f0: f64, phi0: f64) -> f64 {
-    let (b, l, t) = (a.base_length, a.chamber_length, a.tip_length);
-    // state relative to the tip: (phi, du = u(s) - u_tip, dw), integrating s from S down to 0
+/// Shooting solution of the finger held at its tip by a force along `-u` acting at the
+/// point `P = tip + depth (cos phi, -sin phi)` (`depth` below the reference line, toward
+/// the bend side; 0 = the tip on the reference line), with `u(P) = target_u`. Integrates
+/// from the chamber's end back to its start with unknowns `F` and the tip angle, and
+/// returns `F` after Newton on the two conditions at the chamber's start (`phi = 0` and
+/// `u = 0`), with a finite-difference Jacobian.
+fn shoot_tip_contact(
+    a: &Actuator,
+    law: &crate::section::SectionLaw,
+    f0: f64,
+    phi0: f64,
+    target_u: f64,
+    depth: f64,
+) -> f64 {
+    let (l, t) = (a.chamber_length, a.tip_length);
     let residual = |f: f64, phi_tip: f64| -> (f64, f64) {
-        // the cap: straight, at angle phi_tip
+        // state relative to P: (phi, du = u(s) - u_P, dw = w(s) - w_P); start at the
+        // chamber's end x_N = tip - t d(phi), P = tip + depth n(phi)
         let mut phi = phi_tip;
-        let mut du = -t * phi.sin();
-        let mut dw = -t * phi.cos();
+        let mut du = -t * phi.sin() - depth * phi.cos();
+        let mut dw = -t * phi.cos() + depth * phi.sin();
         let n = 400;
         let h = l / n as f64;
-        // the holder pushes with -F along u at the tip; the moment it exerts about the
-        // section at s, in the sense of increasing phi, is F (w(s) - w_tip) = F dw
+        // the holder pushes with -F along u at P; its moment about the section at s, in the
+        // sense of increasing phi, is F (w(s) - w_P) = F dw
         let mut k_guess = 0.0;
         let mut rhs = |phi: f64, dw: f64| -> (f64, f64, f64) {
             let kappa = invert_law(law, f * dw, k_guess);
             k_guess = kappa;
-            // d/ds going backwards: phi' = kappa, u' = sin phi, w' = cos phi
+            // d/ds: phi' = kappa, u' = sin phi, w' = cos phi (integrated with -h)
             (kappa, phi.sin(), phi.cos())
         };
         for _ in 0..n {
@@ -205,10 +216,8 @@ fn shoot_blocked(a: &Actuator, law: &crate::section::SectionLaw, f0: f64, phi0: 
             du -= h / 6.0 * (u1 + 2.0 * u2 + 2.0 * u3 + u4);
             dw -= h / 6.0 * (w1 + 2.0 * w2 + 2.0 * w3 + w4);
         }
-        let _ = b;
-        // at the chamber start: phi = 0 (clamped base is straight) and u = 0 there, with
-        // u_tip = 0, so du = 0 as well
-        (phi, du)
+        // at the chamber's start: phi = 0 and u = 0, i.e. du = -u_P = -target_u
+        (phi, du + target_u)
     };
     let (mut f, mut ph) = (f0, phi0);
     for _ in 0..30 {
@@ -225,6 +234,51 @@ fn shoot_blocked(a: &Actuator, law: &crate::section::SectionLaw, f0: f64, phi0: 
         ph -= (j11 * r2 - j21 * r1) / det;
     }
     f
+}
+
+fn shoot_blocked(a: &Actuator, law: &crate::section::SectionLaw, f0: f64, phi0: f64) -> f64 {
+    shoot_tip_contact(a, law, f0, phi0, 0.0, 0.0)
+}
+
+/// A finger pressed against a flat rigid wall (issue "grasp check": contact force and
+/// shape against a boundary-value solution computed independently). The wall is the
+/// plane `u = d` parallel to the unbent axis, on the side the finger bends to; gaps are
+/// set at the inner face (`y = -t_u`) of every element end and of the tip. The active set
+/// finds the tip's inner corner as the only contact; the force equals the shooting
+/// solution of the rod equations with the force at that corner, and every other gap stays
+/// open (no penetration beyond the tolerance).
+#[test]
+fn finger_pressed_against_a_flat_wall_matches_a_shooting_solution() {
+    let a = demo_actuator();
+    let rod = Rod::of_actuator(&a, 48).unwrap();
+    let law = a.law(10e3, SectionModel::WallPressure);
+    let free = a.free_bending(10e3).unwrap();
+    let d = 0.6 * free.tip.x; // the wall stops the finger well short of its free tip
+    let depth = a.section.under_layer();
+    let h = rod.element_length();
+    let mut gaps: Vec<PointGap> = (1..=rod.elements)
+        .map(|i| PointGap {
+            point: MaterialPoint { s: a.base_length + h * i as f64, y: -depth },
+            normal: Vec2::new(-1.0, 0.0),
+            offset: -d,
+        })
+        .collect();
+    gaps.push(PointGap {
+        point: MaterialPoint { s: rod.length(), y: -depth },
+        normal: Vec2::new(-1.0, 0.0),
+        offset: -d,
+    });
+    let c = solve_with_gaps(&rod, &law, &[], &[], &gaps, None, None).unwrap();
+    assert!(c.solution.report.converged(), "{:?}", c.solution.report);
+    let active: Vec<usize> = (0..gaps.len()).filter(|&i| c.active[i]).collect();
+    assert_eq!(active, vec![gaps.len() - 1], "only the tip corner touches");
+    assert!(c.gaps.iter().all(|g| *g >= -GAP_TOLERANCE), "{:?}", c.gaps);
+    assert!(c.gap_forces.iter().all(|f| *f >= 0.0));
+    let f = c.gap_forces[gaps.len() - 1];
+    let tip_angle = *c.solution.angles.last().unwrap();
+    let f_ref = shoot_tip_contact(&a, &law, f, tip_angle, d, depth);
+    assert!(f > 0.0);
+    assert_relative_eq!(f, f_ref, max_relative = 2e-3);
 }
 
 #[test]

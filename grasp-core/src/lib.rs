@@ -19,6 +19,7 @@
 #![deny(clippy::print_stdout, clippy::print_stderr)]
 
 pub mod actuator;
+pub mod check;
 pub mod kinematics;
 pub mod material;
 pub mod math;

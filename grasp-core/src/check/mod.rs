@@ -80,13 +80,22 @@ impl std::fmt::Display for Failure {
         match self {
             Self::TooFewFingers { got, need } => write!(f, "{got} finger(s) in contact, {need} required"),
             Self::Enclosure { got, need } => {
-                write!(f, "enclosure {:.0} % of escape directions, {:.0} % required", got * 100.0, need * 100.0)
+                write!(
+                    f,
+                    "enclosure {:.0} % of escape directions, {:.0} % required",
+                    got * 100.0,
+                    need * 100.0
+                )
             }
             Self::Holding { case, margin, need } => {
                 write!(f, "holding margin {margin:.2} in the {case} case, {need:.2} required")
             }
             Self::ContactForce { peak, limit } => {
-                write!(f, "peak contact force {peak:.2} N exceeds the limit of {limit:.2} N by {:.2} N", peak - limit)
+                write!(
+                    f,
+                    "peak contact force {peak:.2} N exceeds the limit of {limit:.2} N by {:.2} N",
+                    peak - limit
+                )
             }
             Self::Interference { pairs } => {
                 let list: Vec<String> = pairs.iter().map(|(a, b)| format!("{a}-{b}")).collect();

@@ -15,5 +15,10 @@ pub type Vec3 = glam::DVec3;
 pub type Mat3 = glam::DMat3;
 /// A 4×4 homogeneous transform.
 pub type Mat4 = glam::DMat4;
+/// A rigid transform (rotation then translation) as used by parry3d: `pose * local_point`
+/// is the point in the outer frame (m).
+pub type Pose = parry3d_f64::math::Pose;
+/// A rotation (unit quaternion), the rotation part of a [`Pose`].
+pub type Rotation = parry3d_f64::math::Rotation;
 
 pub mod gauss_legendre;

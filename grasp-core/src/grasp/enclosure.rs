@@ -33,7 +33,10 @@
 //! Each obstacle is first tested with bounding spheres: against the ball that holds the
 //! object's whole travel, once, and then against the capsule swept by the object's
 //! bounding ball along each direction. Only obstacles that pass are cast, so the cost
-//! grows with the obstacles near the object, not with all of them.
+//! grows with the obstacles near the object, not with all of them. The evaluation is
+//! sequential in a fixed order and has no randomness: the same inputs give the same
+//! result, whatever the order of the obstacles. Three 42-piece fingers and the palm
+//! around a 25 mm ball take about 4 ms for 256 directions (release build, README).
 
 use crate::math::{Pose, Vec3};
 use parry3d_f64::query::{self, ShapeCastOptions};
@@ -188,22 +191,31 @@ pub fn blocked_directions(
         compute_impact_geometry_on_penetration: true,
     };
     let mut out = Vec::with_capacity(directions);
+    let mut candidates: Vec<(f64, usize)> = Vec::with_capacity(near.len());
     for d in fibonacci_directions(directions) {
+        if near.iter().any(|ob| ob.touching.is_some_and(|n| d.dot(n) > 0.0)) {
+            out.push(true);
+            continue;
+        }
+        // obstacles whose bounding ball meets the capsule swept by the object's bounding
+        // ball along d, those most nearly straight ahead first (the likeliest hits; the
+        // answer does not depend on the order)
+        candidates.clear();
+        for (k, ob) in near.iter().enumerate() {
+            if ob.touching.is_some() {
+                continue;
+            }
+            let rel = ob.centre - c0;
+            let along = rel.dot(d);
+            let t = along.clamp(0.0, travel);
+            if (c0 + t * d - ob.centre).length() <= r0 + ob.radius {
+                candidates.push((-along / rel.length().max(f64::MIN_POSITIVE), k));
+            }
+        }
+        candidates.sort_by(|a, b| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)));
         let mut hit = false;
-        for ob in &near {
-            if let Some(n) = ob.touching {
-                if d.dot(n) > 0.0 {
-                    hit = true;
-                    break;
-                }
-                continue;
-            }
-            // the capsule swept by the object's bounding ball along d
-            let t = (ob.centre - c0).dot(d).clamp(0.0, travel);
-            if (c0 + t * d - ob.centre).length() > r0 + ob.radius {
-                continue;
-            }
-            let i = ob.index;
+        for &(_, k) in &candidates {
+            let i = near[k].index;
             let (p, s) = &obstacles[i];
             match query::cast_shapes(pose, d, object, p, Vec3::ZERO, &**s, options) {
                 Ok(Some(_)) => {
@@ -323,6 +335,59 @@ mod tests {
             assert_eq!(e.blocked, lattice_count(n, |z| z < -g / (2.0 * R)), "n = {n}, gap");
         }
         assert_eq!(lattice_count(256, |z| z < 0.0), 128);
+    }
+
+    /// The same closed form across gaps from touching to far, for a ball and for a
+    /// polyhedral object (the 24 x 48 ellipsoid hull of a sphere, whose lowest point is
+    /// its pole vertex): the count must not jump where the start switches from the
+    /// contact-normal decision (gap below 1e-6 R) to the cast.
+    #[test]
+    fn slab_gap_sweep_across_the_contact_tolerance() {
+        let (b, p) = ball_at_origin();
+        let poly = crate::geometry::shapes::ellipsoid_points(Vec3::splat(R));
+        let poly = parry3d_f64::shape::ConvexPolyhedron::from_convex_hull(&poly).unwrap();
+        let n = 256;
+        for rel in [0.0, 1e-9, 1e-7, 9e-7, 1.1e-6, 3e-6, 1e-5, 1e-4, 1e-2, 0.3, 1.5] {
+            let g = rel * R;
+            let slab = (
+                Pose::translation(0.0, 0.0, -R - g - 10.0 * R),
+                SharedShape::cuboid(20.0 * R, 20.0 * R, 10.0 * R),
+            );
+            let want = lattice_count(n, |z| z < -g / (2.0 * R));
+            let shapes: [&dyn Shape; 2] = [&b, &poly];
+            for (k, obj) in shapes.into_iter().enumerate() {
+                let e = enclosure(obj, &p, R, std::slice::from_ref(&slab), n).unwrap();
+                assert_eq!(e.blocked, want, "gap {rel} R, object {k}");
+            }
+        }
+    }
+
+    /// A cube of half-edge a above a slab with a gap g under its bottom face: its lowest
+    /// points descend by t |d_z|, so it is blocked exactly when d_z < -g / travel, with
+    /// travel = 2 a sqrt(3) (twice the bounding radius). Checked for parry's cuboid
+    /// (convex, cast path) and for the same cube as a triangle mesh (composite-shape cast),
+    /// against the lattice's closed-form count.
+    #[test]
+    fn cube_and_cube_mesh_over_a_slab() {
+        let a = 0.02;
+        let br = a * 3f64.sqrt();
+        let g = 0.1 * a;
+        let slab = (Pose::translation(0.0, 0.0, -a - g - 0.5), SharedShape::cuboid(1.0, 1.0, 0.5));
+        let mut vertices = Vec::new();
+        for i in 0..8 {
+            let c = Vec3::new((i & 1) as f64, ((i >> 1) & 1) as f64, ((i >> 2) & 1) as f64);
+            vertices.push((2.0 * c - Vec3::ONE) * a);
+        }
+        let faces = [[0, 2, 3, 1], [4, 5, 7, 6], [0, 1, 5, 4], [2, 6, 7, 3], [0, 4, 6, 2], [1, 3, 7, 5]];
+        let tris: Vec<[u32; 3]> =
+            faces.iter().flat_map(|f| [[f[0], f[1], f[2]], [f[0], f[2], f[3]]]).collect();
+        let mesh = parry3d_f64::shape::TriMesh::new(vertices, tris).unwrap();
+        let cuboid = parry3d_f64::shape::Cuboid::new(Vec3::splat(a));
+        let n = 512;
+        let want = lattice_count(n, |z| z < -g / (2.0 * br));
+        let pose = Pose::translation(0.003, -0.002, 0.0);
+        assert_eq!(enclosure(&cuboid, &pose, br, std::slice::from_ref(&slab), n).unwrap().blocked, want);
+        assert_eq!(enclosure(&mesh, &pose, br, &[slab], n).unwrap().blocked, want);
     }
 
     /// A ball obstacle of radius q centred at distance D on +z blocks the cone of

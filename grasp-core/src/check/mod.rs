@@ -9,6 +9,8 @@
 //! centre of the palm's lower face, `+z` up, gravity along `-z`; DESIGN 2), SI units.
 //! A contact normal points from the finger into the object.
 
+pub mod closing;
+
 use crate::math::Vec3;
 
 /// Pass or fail.

@@ -1,0 +1,363 @@
+//! Stage 1 of the grasp (DESIGN 3.4): each finger closes at the supply pressure on an
+//! object held at its scene pose; contacts are frictionless here (normal forces only).
+//!
+//! Method: each finger is the rod of [`crate::rod`] with its section law, its own weight
+//! (rubber density times volume, lumped at element midpoints, gravity `-z`) and
+//! unilateral contact against the object and the palm. The pressure is ramped from zero
+//! in steps (the finger closes from open, as on the bench); at each step the contact
+//! geometry is linearised about the current configuration — for every body piece within
+//! [`PREDICTION`] of an obstacle, parry's closest points give a gap
+//! `g = d - n_p . (x - x_0)` for the material point under the contact, `n_p` the in-plane
+//! part of the contact normal — the rod is solved with those gaps by the active-set
+//! method of [`crate::rod::solve_with_gaps`], and the geometry is queried again, until
+//! the true penetration is below [`PENETRATION_TOLERANCE`] (DESIGN 3.3: 0.01 mm) and the
+//! contact set stops changing. Out-of-plane components of contact forces are carried by
+//! the finger's lateral stiffness, taken as rigid (DESIGN 3.3). A finger whose contact
+//! normal lies almost out of its plane (in-plane part below 5 %) cannot push that way and
+//! gets no gap there.
+//!
+//! Neighbouring fingers are not obstacles of each other in this stage: each finger closes
+//! against the object and the palm, and bodies of different fingers that intersect in the
+//! closed state are reported as interference (a failure of the grasp).
+
+use parry3d_f64::query;
+use parry3d_f64::shape::SharedShape;
+
+use super::ContactReport;
+use crate::actuator::Actuator;
+use crate::geometry::{FingerBody, FingerFrame, ObjectGeometry, PieceKind};
+use crate::math::{Pose, Vec3};
+use crate::rod::{MaterialPoint, PointGap, PointLoad, Rod, SolveReport, SolveStatus, solve_with_gaps};
+use crate::section::SectionModel;
+
+/// Standard gravity (m/s²; the conventional value, CGPM 1901).
+pub const GRAVITY: f64 = 9.806_65;
+/// Distance within which a body piece gets a (possibly open) gap (m).
+pub const PREDICTION: f64 = 6e-3;
+/// Largest penetration accepted in a converged closed state (m), DESIGN 3.3.
+pub const PENETRATION_TOLERANCE: f64 = 1e-5;
+/// Pressure steps of the ramp from zero to the supply pressure.
+const RAMP_STEPS: usize = 4;
+/// Re-linearisations allowed per pressure step.
+const MAX_RELINEARISATIONS: usize = 12;
+/// Pressure-step halvings allowed in one closing.
+pub const MAX_HALVINGS: usize = 12;
+
+/// The closed state of one finger on one object.
+#[derive(Debug, Clone)]
+pub struct ClosedFinger {
+    /// Element-end angles of the solved rod (rad).
+    pub angles: Vec<f64>,
+    /// The body in the closed state.
+    pub body: FingerBody,
+    /// Contacts with the object (normal forces > 0).
+    pub contacts: Vec<ContactReport>,
+    /// Largest penetration of the body into the object or the palm (m; <= 0 if apart).
+    pub penetration: f64,
+    /// Convergence of the last rod solve (status `Converged` only if every step and the
+    /// penetration test converged).
+    pub report: SolveReport,
+}
+
+/// What a finger closes against.
+pub struct Obstacles<'a> {
+    /// The target object.
+    pub object: &'a ObjectGeometry,
+    /// The palm.
+    pub palm: &'a (Pose, SharedShape),
+}
+
+/// Point loads of the finger's own weight: the rubber of each chamber element (section
+/// rubber area times its length) at the element's middle, the solid tip cap at its
+/// middle, on the rubber's centroid height; the base is clamped and carries its own.
+pub fn weight_loads(actuator: &Actuator, rod: &Rod, frame: &FingerFrame) -> Vec<PointLoad> {
+    let (gravity_plane, _) = frame.plane_direction(Vec3::new(0.0, 0.0, -GRAVITY));
+    let rho = actuator.material.density;
+    let q = actuator.section.quadrature(crate::actuator::SECTION_GAUSS_POINTS);
+    let area = q.rubber_moment(0);
+    let y_c = q.rubber_moment(1) / area;
+    let h = rod.element_length();
+    let mut loads: Vec<PointLoad> = (0..rod.elements)
+        .map(|i| PointLoad {
+            point: MaterialPoint { s: rod.base_length + h * (i as f64 + 0.5), y: y_c },
+            force: rho * area * h * gravity_plane,
+        })
+        .collect();
+    if rod.tip_length > 0.0 {
+        let full = area + actuator.section.chamber_area();
+        let y_full = (q.rubber_moment(1) + q.chamber_area * q.chamber_centroid) / full;
+        loads.push(PointLoad {
+            point: MaterialPoint { s: rod.length() - 0.5 * rod.tip_length, y: y_full },
+            force: rho * full * rod.tip_length * gravity_plane,
+        });
+    }
+    loads
+}
+
+/// One linearised contact: which piece, the gap, and how to turn its force into a
+/// world-frame contact.
+struct Linearised {
+    piece: usize,
+    gap: PointGap,
+    /// In-plane share of the unit world normal, `|n_p|`.
+    in_plane: f64,
+    /// Witness on the obstacle (m, gripper frame).
+    point: Vec3,
+    /// World normal from the finger into the obstacle.
+    normal: Vec3,
+    /// Against the object (true) or the palm.
+    on_object: bool,
+}
+
+fn linearise(
+    rod: &Rod,
+    angles: &[f64],
+    body: &FingerBody,
+    obstacles: &Obstacles<'_>,
+) -> Result<(Vec<Linearised>, f64), String> {
+    let mut out = Vec::new();
+    let mut penetration = f64::NEG_INFINITY;
+    let targets: [(&Pose, &SharedShape, bool); 2] = [
+        (&obstacles.object.pose, &obstacles.object.shape, true),
+        (&obstacles.palm.0, &obstacles.palm.1, false),
+    ];
+    for (i, piece) in body.pieces.iter().enumerate() {
+        if piece.kind == PieceKind::Base {
+            continue; // clamped in the hub: it cannot move to open or close a gap
+        }
+        for &(pose, shape, on_object) in &targets {
+            let c = query::contact(&piece.pose, piece.shape.as_ref(), pose, shape.as_ref(), PREDICTION)
+                .map_err(|_| "unsupported shape pair in the contact query".to_string())?;
+            let Some(c) = c else { continue };
+            penetration = penetration.max(-c.dist);
+            let normal: Vec3 = c.normal1;
+            let (np, _) = body.frame.plane_direction(normal);
+            let in_plane = np.length();
+            if in_plane < 0.05 {
+                continue;
+            }
+            let (mp, _) = body.material_point(i, c.point1).map_err(|e| e.to_string())?;
+            let x0 = rod.position(angles, mp).map_err(|e| e.to_string())?;
+            // g = d - n_p . (x - x0) >= 0, scaled by 1/|n_p|: unit normal -n_p/|n_p|
+            let unit = -np / in_plane;
+            let gap = PointGap { point: mp, normal: unit, offset: unit.dot(x0) - c.dist / in_plane };
+            out.push(Linearised { piece: i, gap, in_plane, point: c.point2, normal, on_object });
+        }
+    }
+    Ok((out, penetration))
+}
+
+fn element_index(kind: PieceKind, elements: usize) -> usize {
+    match kind {
+        PieceKind::Base => 0,
+        PieceKind::Element(i) => i,
+        PieceKind::Tip => elements,
+    }
+}
+
+/// The outcome of one pressure step of the closing ramp.
+struct StepResult {
+    angles: Vec<f64>,
+    lin: Vec<Linearised>,
+    forces: Vec<f64>,
+    penetration: f64,
+}
+
+/// Closes the finger at pressure `p` from `angles` by repeated linearisation; `None` when
+/// it does not settle (the caller then takes a smaller pressure step).
+#[expect(clippy::too_many_arguments, reason = "internal helper of close_finger")]
+fn settle(
+    actuator: &Actuator,
+    rod: &Rod,
+    frame: FingerFrame,
+    model: SectionModel,
+    p: f64,
+    loads: &[PointLoad],
+    obstacles: &Obstacles<'_>,
+    angles: &[f64],
+    report: &mut SolveReport,
+) -> Result<Option<StepResult>, String> {
+    let law = actuator.law(p, model);
+    let mut angles = angles.to_vec();
+    let body = FingerBody::new(rod, &angles, &actuator.section, frame).map_err(|e| e.to_string())?;
+    let (mut lin, _) = linearise(rod, &angles, &body, obstacles)?;
+    let mut active: Option<Vec<bool>> = None;
+    let mut prev_pieces: Option<Vec<usize>> = None;
+    for _ in 0..MAX_RELINEARISATIONS {
+        let gaps: Vec<PointGap> = lin.iter().map(|l| l.gap).collect();
+        let seed = active.as_ref().filter(|a| a.len() == gaps.len()).map(Vec::as_slice);
+        let sol =
+            solve_with_gaps(rod, &law, loads, &[], &gaps, Some(&angles), seed).map_err(|e| e.to_string())?;
+        report.iterations += sol.solution.report.iterations;
+        report.residual = sol.solution.report.residual;
+        report.constraint_residual = sol.solution.report.constraint_residual;
+        if !sol.solution.report.converged() {
+            report.status = sol.solution.report.status;
+            return Ok(None);
+        }
+        angles.clone_from(&sol.solution.angles);
+        let body = FingerBody::new(rod, &angles, &actuator.section, frame).map_err(|e| e.to_string())?;
+        let (next, pen) = linearise(rod, &angles, &body, obstacles)?;
+        let penetration = pen.max(0.0);
+        let pieces: Vec<usize> =
+            lin.iter().zip(&sol.active).filter(|(_, a)| **a).map(|(l, _)| l.piece).collect();
+        let stable = prev_pieces.as_ref() == Some(&pieces) || pieces.is_empty();
+        if penetration <= PENETRATION_TOLERANCE && stable {
+            return Ok(Some(StepResult { angles, lin, forces: sol.gap_forces, penetration }));
+        }
+        // carry the active set over to the new linearisation, piece by piece
+        active = Some(next.iter().map(|l| pieces.contains(&l.piece)).collect());
+        prev_pieces = Some(pieces);
+        lin = next;
+    }
+    Ok(None)
+}
+
+/// Closes finger `finger` (mounted at `frame`) of `actuator` at `pressure` (Pa) on the
+/// obstacles, from `start` (a closed state at a lower pressure of a sweep, or `None` =
+/// straight at zero pressure). The pressure is ramped in steps that halve when a step
+/// does not settle (at most [`MAX_HALVINGS`] times) and grow again after a success.
+///
+/// # Errors
+/// A geometry the queries cannot handle; non-convergence is reported in the result.
+#[expect(clippy::too_many_arguments, reason = "the closing problem has this many independent inputs")]
+pub fn close_finger(
+    finger: usize,
+    actuator: &Actuator,
+    rod: &Rod,
+    frame: FingerFrame,
+    model: SectionModel,
+    pressure: f64,
+    obstacles: &Obstacles<'_>,
+    start: Option<(f64, &[f64])>,
+) -> Result<ClosedFinger, String> {
+    let loads = weight_loads(actuator, rod, &frame);
+    let (mut p_done, mut angles) = match start {
+        Some((p, a)) => (p, a.to_vec()),
+        None => (0.0, vec![0.0; rod.dofs()]),
+    };
+    let span = (pressure - p_done).abs().max(1.0);
+    let mut dp = (pressure - p_done) / RAMP_STEPS as f64;
+    let mut report = SolveReport {
+        status: SolveStatus::Converged,
+        iterations: 0,
+        residual: 0.0,
+        constraint_residual: 0.0,
+        load_steps: 0,
+    };
+    let mut last: Option<StepResult> = None;
+    let mut halvings = 0;
+    loop {
+        let target = if dp.abs() >= (pressure - p_done).abs() { pressure } else { p_done + dp };
+        match settle(actuator, rod, frame, model, target, &loads, obstacles, &angles, &mut report)? {
+            Some(step) => {
+                angles.clone_from(&step.angles);
+                p_done = target;
+                report.load_steps += 1;
+                last = Some(step);
+                if (p_done - pressure).abs() <= 1e-12 * span {
+                    break;
+                }
+                dp *= 1.5;
+            }
+            None => {
+                halvings += 1;
+                dp *= 0.5;
+                if halvings > MAX_HALVINGS || dp.abs() < span / 4096.0 {
+                    if report.status == SolveStatus::Converged {
+                        report.status = SolveStatus::IterationLimit;
+                    }
+                    let body =
+                        FingerBody::new(rod, &angles, &actuator.section, frame).map_err(|e| e.to_string())?;
+                    let penetration = last.as_ref().map_or(0.0, |s| s.penetration);
+                    return Ok(ClosedFinger { angles, body, contacts: Vec::new(), penetration, report });
+                }
+                report.status = SolveStatus::Converged;
+            }
+        }
+    }
+    let body = FingerBody::new(rod, &angles, &actuator.section, frame).map_err(|e| e.to_string())?;
+    let (contacts, penetration) = match last {
+        Some(step) => {
+            let contacts = step
+                .lin
+                .iter()
+                .zip(&step.forces)
+                .filter(|(l, f)| l.on_object && **f > 0.0)
+                .map(|(l, f)| ContactReport {
+                    finger,
+                    element: element_index(body.pieces[l.piece].kind, rod.elements),
+                    point: l.point,
+                    normal: l.normal,
+                    normal_force: f / l.in_plane,
+                })
+                .collect();
+            (contacts, step.penetration)
+        }
+        None => (Vec::new(), 0.0),
+    };
+    Ok(ClosedFinger { angles, body, contacts, penetration, report })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::actuator::Fiber;
+    use crate::geometry::palm_body;
+    use crate::material::{HyperelasticModel, Material, NeoHookean};
+    use crate::scene::{ObjectShape, Palm};
+    use crate::section::{BoxSection, SectionProfile};
+
+    /// The 3-finger demo scene's finger (invented demo values): Shore 00-30 class rubber.
+    pub(crate) fn demo_finger() -> Actuator {
+        Actuator::new(
+            "box-100",
+            "platinum silicone, Shore 00-30",
+            Material {
+                model: HyperelasticModel::NeoHookean(NeoHookean::new(69e3 / 1.75).unwrap()),
+                density: 1070.0,
+                stretch_at_break: 10.0,
+            },
+            SectionProfile::Box(BoxSection::new(14e-3, 10e-3, 3e-3, 3e-3, 2.5e-3, 1e-3).unwrap()),
+            0.1,
+            0.006,
+            0.005,
+            Fiber { pitch: 3.5e-3, width: 1e-3 },
+            60e3,
+            SectionModel::WallPressure,
+        )
+        .unwrap()
+    }
+
+    #[test]
+    fn probe_closing_on_a_ball() {
+        let a = demo_finger();
+        let rod = Rod::of_actuator(&a, 40).unwrap();
+        let frame = FingerFrame::new(0.0, 0.065, 0.0).unwrap();
+        let obj =
+            ObjectGeometry::new(&ObjectShape::Sphere { radius: 0.034 }, Vec3::new(0.0, 0.0, -0.075)).unwrap();
+        let palm = palm_body(&Palm::Disk { radius: 0.075, thickness: 0.012 }).unwrap();
+        let obs = Obstacles { object: &obj, palm: &palm };
+        for kpa in [20.0, 30.0, 40.0, 50.0] {
+            let t = std::time::Instant::now();
+            let c =
+                close_finger(0, &a, &rod, frame, SectionModel::WallPressure, kpa * 1e3, &obs, None).unwrap();
+            eprintln!(
+                "{kpa} kPa: {:?} pen {:.2e} contacts {} t {:?}",
+                c.report.status,
+                c.penetration,
+                c.contacts.len(),
+                t.elapsed()
+            );
+            for k in &c.contacts {
+                eprintln!(
+                    "   el {} F {:.4} N  p {:?} n {:?}",
+                    k.element,
+                    k.normal_force,
+                    k.point * 1e3,
+                    k.normal
+                );
+            }
+        }
+    }
+}

@@ -16,9 +16,11 @@
 //! - [`kinematics`]: constant-curvature arcs and the finger's centreline.
 //! - [`rod`]: the finger as a discretised planar rod with point loads and tip constraints.
 //! - [`scene`]: the validated scene model (materials, actuators, gripper, objects, criteria).
+//! - [`grasp`]: checks on a closed grasp's contacts: holding margins and epsilon quality.
 #![deny(clippy::print_stdout, clippy::print_stderr)]
 
 pub mod actuator;
+pub mod grasp;
 pub mod kinematics;
 pub mod material;
 pub mod math;

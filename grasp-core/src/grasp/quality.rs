@@ -60,6 +60,8 @@
 //! given counts; leave out those that should not.
 
 mod hull;
+#[cfg(test)]
+mod tests;
 
 use hull::{Hull, convex_hull};
 
@@ -71,7 +73,7 @@ pub const DEFAULT_CONE_EDGES: usize = 8;
 /// Largest number of cone edges accepted.
 pub const MAX_CONE_EDGES: usize = 256;
 /// Largest number of primitive wrenches (contacts times edges) accepted in 6-D.
-pub const MAX_PRIMITIVE_WRENCHES: usize = 512;
+pub const MAX_PRIMITIVE_WRENCHES: usize = 256;
 /// Largest number of contacts for the planar L-infinity quality.
 pub const MAX_LINF_CONTACTS: usize = 10;
 
@@ -167,22 +169,37 @@ fn check_common(torque_length: f64, centre_finite: bool) -> Result<(), QualityEr
     Ok(())
 }
 
-/// The primitive wrenches of the contacts with `k` pyramid edges whose tangential part is
-/// `edge_factor * mu` long (1 = inscribed pyramid, `1 / cos(pi/k)` = circumscribed).
+/// How a friction cone is replaced by a `k`-edge pyramid.
+#[derive(Debug, Clone, Copy, PartialEq)]
+enum Pyramid {
+    /// Edges on the cone at `phi_j = 2 pi j / k`.
+    Inscribed,
+    /// Faces tangent to the cone at `phi_j`: edges of length `mu / cos(pi/k)` at
+    /// `phi_j + pi/k`. Doubling `k` keeps the tangent directions, so the pyramids nest.
+    #[cfg_attr(not(test), expect(dead_code, reason = "used to measure the linearisation error in tests"))]
+    Circumscribed,
+}
+
+/// The primitive wrenches of the contacts with `k`-edge pyramids.
 fn primitive_wrenches(
     contacts: &[GraspContact],
     com: Vec3,
     torque_length: f64,
     k: usize,
-    edge_factor: f64,
+    pyramid: Pyramid,
 ) -> Vec<[f64; 6]> {
+    let step = std::f64::consts::TAU / k as f64;
+    let (edge_factor, phase) = match pyramid {
+        Pyramid::Inscribed => (1.0, 0.0),
+        Pyramid::Circumscribed => (1.0 / (0.5 * step).cos(), 0.5 * step),
+    };
     let mut out = Vec::with_capacity(contacts.len() * k);
     for c in contacts {
         let (n, t1, t2) = c.frame();
         let arm = c.point - com;
         let edges = if c.friction > 0.0 { k } else { 1 };
         for j in 0..edges {
-            let phi = std::f64::consts::TAU * j as f64 / k as f64;
+            let phi = step * j as f64 + phase;
             let f = n + c.friction * edge_factor * (phi.cos() * t1 + phi.sin() * t2);
             let tau = arm.cross(f) / torque_length;
             out.push([f.x, f.y, f.z, tau.x, tau.y, tau.z]);
@@ -196,7 +213,7 @@ fn epsilon_with_edges(
     com: Vec3,
     torque_length: f64,
     cone_edges: usize,
-    edge_factor: f64,
+    pyramid: Pyramid,
 ) -> Result<EpsilonQuality<6>, QualityError> {
     validate_contacts(contacts)?;
     check_common(torque_length, com.is_finite())?;
@@ -216,7 +233,7 @@ fn epsilon_with_edges(
             facet_count: 0,
         });
     }
-    Ok(quality_from_points(&primitive_wrenches(contacts, com, torque_length, cone_edges, edge_factor)))
+    Ok(quality_from_points(&primitive_wrenches(contacts, com, torque_length, cone_edges, pyramid)))
 }
 
 /// The L1 epsilon quality of a spatial grasp, friction cones linearised into
@@ -236,20 +253,7 @@ pub fn epsilon_quality(
     torque_length: f64,
     cone_edges: usize,
 ) -> Result<EpsilonQuality<6>, QualityError> {
-    epsilon_with_edges(contacts, com, torque_length, cone_edges, 1.0)
-}
-
-/// The quality with circumscribed pyramids (`mu / cos(pi/k)` edges): an upper bound of
-/// the exact-cone quality, used to measure the linearisation error.
-#[cfg(test)]
-fn epsilon_quality_circumscribed(
-    contacts: &[GraspContact],
-    com: Vec3,
-    torque_length: f64,
-    cone_edges: usize,
-) -> Result<EpsilonQuality<6>, QualityError> {
-    let factor = 1.0 / (std::f64::consts::PI / cone_edges as f64).cos();
-    epsilon_with_edges(contacts, com, torque_length, cone_edges, factor)
+    epsilon_with_edges(contacts, com, torque_length, cone_edges, Pyramid::Inscribed)
 }
 
 /// A point contact in the plane.

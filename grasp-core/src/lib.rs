@@ -17,14 +17,13 @@
 //! - [`rod`]: the finger as a discretised planar rod with point loads and tip constraints.
 //! - [`scene`]: the validated scene model (materials, actuators, gripper, objects, criteria).
 //! - [`geometry`]: the hub layout, object shapes and finger bodies as parry3d shapes.
-//! - [`grasp`]: grasp criteria at a pressure, e.g. [`grasp::enclosure`].
+//! - [`grasp`]: grasp criteria at a pressure: enclosure, holding margins, epsilon quality.
 //! - [`check`]: the grasp check of a whole scene, with verdicts and pressure windows.
 #![deny(clippy::print_stdout, clippy::print_stderr)]
 
 pub mod actuator;
 pub mod check;
 pub mod geometry;
-/// Grasp evaluation at a pressure (DESIGN 3.4): enclosure, contacts, holding, quality.
 pub mod grasp;
 pub mod kinematics;
 pub mod material;

@@ -10,6 +10,9 @@
 //! A contact normal points from the finger into the object.
 
 pub mod closing;
+mod evaluate;
+
+pub use evaluate::{INTERFERENCE_TOLERANCE, check_scene};
 
 use crate::math::Vec3;
 

@@ -1,0 +1,383 @@
+//! The scene-level grasp check: every object against the gripper at the supply pressure
+//! and over the pressure sweep (DESIGN 3.4).
+//!
+//! For one object at one pressure: every finger closes on it ([`super::closing`]); the
+//! contacts give the holding margins of the lift and lateral load cases (a second-order
+//! cone program, [`crate::grasp::holding`]) and the Ferrari–Canny epsilon
+//! ([`crate::grasp::quality`]); the closed fingers and the palm give the enclosure
+//! ([`crate::grasp::enclosure`]); bodies of different fingers that intersect in the closed
+//! state are interference. The verdict passes only if every criterion of the scene holds.
+//!
+//! Objects are independent and evaluated in parallel (rayon); each object's sweep runs in
+//! ascending pressure, each closing starting from the previous pressure's closed fingers.
+//! Results are collected in scene order, so they do not depend on the thread count.
+
+use parry3d_f64::query;
+use parry3d_f64::shape::SharedShape;
+use rayon::prelude::*;
+
+use super::closing::{ClosedFinger, Obstacles, close_finger};
+use super::{
+    CheckError, CheckReport, CheckSettings, ContactReport, Failure, FingerReport, HoldingMargins,
+    ObjectReport, Verdict,
+};
+use crate::geometry::{FingerBody, FingerFrame, ObjectGeometry, free_angles, palm_body};
+use crate::grasp::{self, GraspContact, HoldingSettings};
+use crate::math::Pose;
+use crate::rod::{Rod, SolveStatus};
+use crate::scene::{Scene, TargetObject};
+
+/// Overlap of two fingers' bodies that counts as interference (m): 0.1 mm, ten times
+/// the contact solve's penetration tolerance.
+pub const INTERFERENCE_TOLERANCE: f64 = 1e-4;
+
+/// Everything about the gripper that does not depend on the object.
+struct Rig<'a> {
+    scene: &'a Scene,
+    frames: Vec<FingerFrame>,
+    rods: Vec<Rod>,
+    palm: (Pose, SharedShape),
+}
+
+impl<'a> Rig<'a> {
+    fn new(scene: &'a Scene, settings: &CheckSettings) -> Result<Self, CheckError> {
+        let geo = |e: &dyn std::fmt::Display| CheckError::Geometry(e.to_string());
+        let mut frames = Vec::new();
+        let mut rods = Vec::new();
+        for (i, m) in scene.gripper.fingers.iter().enumerate() {
+            let a = scene
+                .actuators
+                .get(m.actuator)
+                .ok_or_else(|| CheckError::Geometry(format!("finger {i}: no actuator")))?;
+            frames.push(FingerFrame::of_mount(m).map_err(|e| geo(&format!("finger {i}: {e}")))?);
+            rods.push(Rod::of_actuator(a, settings.elements).map_err(|e| geo(&e))?);
+        }
+        let palm = palm_body(&scene.gripper.palm).map_err(|e| geo(&e))?;
+        Ok(Self { scene, frames, rods, palm })
+    }
+
+    fn actuator(&self, finger: usize) -> &crate::actuator::Actuator {
+        &self.scene.actuators[self.scene.gripper.fingers[finger].actuator]
+    }
+}
+
+/// One object at one pressure, before the verdict's reasons are turned into a report.
+struct Evaluation {
+    report: ObjectReport,
+    closed: Vec<ClosedFinger>,
+}
+
+fn interference(bodies: &[&FingerBody]) -> Vec<(usize, usize)> {
+    let mut pairs = Vec::new();
+    for i in 0..bodies.len() {
+        for j in i + 1..bodies.len() {
+            let (a, b) = (bodies[i], bodies[j]);
+            if !parry3d_f64::bounding_volume::BoundingVolume::intersects(&a.aabb(), &b.aabb()) {
+                continue;
+            }
+            let hit = a.pieces.iter().any(|p| {
+                b.pieces.iter().any(|q| {
+                    matches!(
+                        query::contact(&p.pose, p.shape.as_ref(), &q.pose, q.shape.as_ref(), 0.0),
+                        Ok(Some(c)) if c.dist < -INTERFERENCE_TOLERANCE
+                    )
+                })
+            });
+            if hit {
+                pairs.push((i, j));
+            }
+        }
+    }
+    pairs
+}
+
+fn evaluate(
+    rig: &Rig<'_>,
+    object: &TargetObject,
+    geometry: &ObjectGeometry,
+    pressure: f64,
+    settings: &CheckSettings,
+    starts: Option<&[(f64, Vec<f64>)]>,
+) -> Result<Evaluation, CheckError> {
+    let criteria = &rig.scene.criteria;
+    let obstacles = Obstacles { object: geometry, palm: &rig.palm };
+    let mut failures = Vec::new();
+    let mut closed = Vec::with_capacity(rig.frames.len());
+    for (i, frame) in rig.frames.iter().enumerate() {
+        let actuator = rig.actuator(i);
+        let start = starts.and_then(|s| s.get(i)).map(|(p, a)| (*p, a.as_slice()));
+        let c = close_finger(
+            i,
+            actuator,
+            &rig.rods[i],
+            *frame,
+            actuator.section_model,
+            pressure,
+            &obstacles,
+            start,
+        )
+        .map_err(CheckError::Geometry)?;
+        if c.report.status != SolveStatus::Converged {
+            failures.push(Failure::NotConverged {
+                what: format!("finger {i} closing on \"{}\" ({})", object.name, c.report.status.name()),
+            });
+        }
+        closed.push(c);
+    }
+    let contacts: Vec<ContactReport> = closed.iter().flat_map(|c| c.contacts.iter().copied()).collect();
+    let mut touching: Vec<usize> = contacts.iter().map(|c| c.finger).collect();
+    touching.sort_unstable();
+    touching.dedup();
+    let fingers_in_contact = touching.len();
+    if fingers_in_contact < criteria.min_fingers_in_contact {
+        failures
+            .push(Failure::TooFewFingers { got: fingers_in_contact, need: criteria.min_fingers_in_contact });
+    }
+    // enclosure by the closed fingers and the palm
+    let mut obstacles_list: Vec<(Pose, SharedShape)> =
+        closed.iter().flat_map(|c| c.body.obstacles()).collect();
+    obstacles_list.push(rig.palm.clone());
+    let enclosure = grasp::enclosure::enclosure(
+        geometry.shape.as_ref(),
+        &geometry.pose,
+        geometry.bounding_radius,
+        &obstacles_list,
+        settings.enclosure_directions,
+    )
+    .map_err(|e| CheckError::Geometry(e.to_string()))?
+    .fraction;
+    if enclosure < criteria.min_enclosure {
+        failures.push(Failure::Enclosure { got: enclosure, need: criteria.min_enclosure });
+    }
+    // holding margins and quality from the contacts
+    let grasp_contacts: Vec<GraspContact> = contacts
+        .iter()
+        .map(|c| GraspContact {
+            point: c.point,
+            normal: c.normal.normalize(),
+            normal_force: c.normal_force,
+            friction: object.friction,
+            finger: c.finger,
+        })
+        .collect();
+    let cases = grasp::load_cases(object.mass, criteria.lift_accel, criteria.lateral_accel)
+        .map_err(|e| CheckError::Geometry(format!("object \"{}\": {e}", object.name)))?;
+    let margins =
+        grasp::holding_margins(&grasp_contacts, object.position, &cases, &HoldingSettings::default())
+            .map_err(|e| CheckError::Geometry(format!("object \"{}\": {e}", object.name)))?;
+    if !margins.all_answered {
+        failures.push(Failure::NotConverged { what: format!("holding program for \"{}\"", object.name) });
+    }
+    let lift = margins.lift.unwrap_or(0.0);
+    let lateral_min = margins.lateral_min.unwrap_or(0.0);
+    for m in &margins.cases {
+        let is_lift = matches!(m.case.kind, grasp::LoadKind::Lift);
+        let worst = if is_lift { lift } else { lateral_min };
+        // one reason per kind: the lift case, and the weakest lateral case
+        if m.result.scale < criteria.safety_factor && m.result.scale == worst {
+            if !failures
+                .iter()
+                .any(|f| matches!(f, Failure::Holding { case, .. } if is_lift == (case == "lift")))
+            {
+                failures.push(Failure::Holding {
+                    case: m.case.name.clone(),
+                    margin: m.result.scale,
+                    need: criteria.safety_factor,
+                });
+            }
+        }
+    }
+    let epsilon = if grasp_contacts.is_empty() {
+        0.0
+    } else {
+        grasp::epsilon_quality(
+            &grasp_contacts,
+            object.position,
+            geometry.bounding_radius,
+            grasp::DEFAULT_CONE_EDGES,
+        )
+        .map(|q| q.epsilon)
+        .unwrap_or(0.0)
+    };
+    let peak_contact_force = contacts.iter().map(|c| c.normal_force).fold(0.0, f64::max);
+    if let Some(limit) = object.max_contact_force
+        && peak_contact_force > limit
+    {
+        failures.push(Failure::ContactForce { peak: peak_contact_force, limit });
+    }
+    let bodies: Vec<&FingerBody> = closed.iter().map(|c| &c.body).collect();
+    let pairs = interference(&bodies);
+    if !pairs.is_empty() {
+        failures.push(Failure::Interference { pairs });
+    }
+    let verdict = if failures.is_empty() { Verdict::Pass } else { Verdict::Fail };
+    Ok(Evaluation {
+        report: ObjectReport {
+            name: object.name.clone(),
+            verdict,
+            failures,
+            fingers_in_contact,
+            contacts,
+            enclosure,
+            epsilon,
+            holding: HoldingMargins { lift, lateral_min },
+            peak_contact_force,
+            pressure_window: None,
+        },
+        closed,
+    })
+}
+
+/// Widest run of consecutive `true`s: `(first, last)` indices.
+fn widest_run(pass: &[bool]) -> Option<(usize, usize)> {
+    let mut best: Option<(usize, usize)> = None;
+    let mut start = None;
+    for (i, &p) in pass.iter().chain(std::iter::once(&false)).enumerate() {
+        match (p, start) {
+            (true, None) => start = Some(i),
+            (false, Some(s)) => {
+                if best.is_none_or(|(a, b)| i - 1 - s > b - a) {
+                    best = Some((s, i - 1));
+                }
+                start = None;
+            }
+            _ => {}
+        }
+    }
+    best
+}
+
+/// Runs the grasp check of `scene`.
+///
+/// # Errors
+/// [`CheckError`] for settings out of range or geometry the solvers refuse. Solver
+/// non-convergence is not an error: it is a [`Failure::NotConverged`] in the object's
+/// report.
+pub fn check_scene(scene: &Scene, settings: &CheckSettings) -> Result<CheckReport, CheckError> {
+    if settings.elements < 40 || settings.elements > 400 {
+        return Err(CheckError::BadSetting(format!(
+            "elements must be between 40 and 400, got {}",
+            settings.elements
+        )));
+    }
+    if settings.enclosure_directions < grasp::enclosure::MIN_DIRECTIONS
+        || settings.enclosure_directions > grasp::enclosure::MAX_DIRECTIONS
+    {
+        return Err(CheckError::BadSetting(format!(
+            "enclosure directions must be between {} and {}, got {}",
+            grasp::enclosure::MIN_DIRECTIONS,
+            grasp::enclosure::MAX_DIRECTIONS,
+            settings.enclosure_directions
+        )));
+    }
+    let pressure = settings.pressure_override.unwrap_or(scene.criteria.pressure);
+    if !(pressure.is_finite() && pressure >= 0.0) {
+        return Err(CheckError::BadSetting(format!("pressure must be finite and >= 0, got {pressure} Pa")));
+    }
+    let rig = Rig::new(scene, settings)?;
+    // the fingers, free (weightless, as `bend` reports them)
+    let mut fingers = Vec::new();
+    let mut free_bodies = Vec::new();
+    for (i, frame) in rig.frames.iter().enumerate() {
+        let a = rig.actuator(i);
+        let free = a.free_bending(pressure).map_err(|e| CheckError::Geometry(format!("finger {i}: {e}")))?;
+        let body =
+            FingerBody::new(&rig.rods[i], &free_angles(&rig.rods[i], free.curvature), &a.section, *frame)
+                .map_err(|e| CheckError::Geometry(e.to_string()))?;
+        free_bodies.push(body);
+        fingers.push(FingerReport {
+            index: i,
+            actuator: a.name.clone(),
+            free_bend: free.bend_angle,
+            tip: frame.to_world(free.tip),
+            max_stretch: free.max_stretch,
+            interferes_with: Vec::new(),
+        });
+    }
+    let refs: Vec<&FingerBody> = free_bodies.iter().collect();
+    for (i, j) in interference(&refs) {
+        fingers[i].interferes_with.push(j);
+        fingers[j].interferes_with.push(i);
+    }
+    let geometries: Vec<ObjectGeometry> = scene
+        .objects
+        .iter()
+        .map(|o| {
+            ObjectGeometry::of_object(o)
+                .map_err(|e| CheckError::Geometry(format!("object \"{}\": {e}", o.name)))
+        })
+        .collect::<Result<_, _>>()?;
+    let sweep: Vec<f64> = scene.criteria.sweep.map(|s| s.pressures()).unwrap_or_default();
+    let per_object: Vec<Result<(ObjectReport, Vec<bool>), CheckError>> = scene
+        .objects
+        .par_iter()
+        .zip(geometries.par_iter())
+        .map(|(object, geometry)| {
+            let mut report = evaluate(&rig, object, geometry, pressure, settings, None)?.report;
+            let mut passes = Vec::with_capacity(sweep.len());
+            let mut starts: Option<Vec<(f64, Vec<f64>)>> = None;
+            for &p in &sweep {
+                let e = evaluate(&rig, object, geometry, p, settings, starts.as_deref())?;
+                passes.push(e.report.verdict == Verdict::Pass);
+                let converged = e.closed.iter().all(|c| c.report.status == SolveStatus::Converged);
+                starts = converged.then(|| e.closed.into_iter().map(|c| (p, c.angles)).collect());
+            }
+            report.pressure_window = widest_run(&passes).map(|(a, b)| (sweep[a], sweep[b]));
+            Ok((report, passes))
+        })
+        .collect();
+    let mut objects = Vec::with_capacity(per_object.len());
+    let mut pass_sets = Vec::with_capacity(per_object.len());
+    for r in per_object {
+        let (report, passes) = r?;
+        objects.push(report);
+        pass_sets.push(passes);
+    }
+    let (recommended_pressure, clashes) = if sweep.is_empty() {
+        (None, Vec::new())
+    } else {
+        let all: Vec<bool> = (0..sweep.len()).map(|k| pass_sets.iter().all(|p| p[k])).collect();
+        match widest_run(&all) {
+            Some((a, b)) => (Some(sweep[(a + b) / 2]), Vec::new()),
+            None => {
+                let mut clashes = Vec::new();
+                for i in 0..objects.len() {
+                    for j in i + 1..objects.len() {
+                        let (pi, pj) = (&pass_sets[i], &pass_sets[j]);
+                        let both_somewhere = pi.iter().any(|&x| x) && pj.iter().any(|&x| x);
+                        if both_somewhere && !pi.iter().zip(pj).any(|(a, b)| *a && *b) {
+                            clashes.push((objects[i].name.clone(), objects[j].name.clone()));
+                        }
+                    }
+                }
+                (None, clashes)
+            }
+        }
+    };
+    let verdict =
+        if objects.iter().all(|o| o.verdict == Verdict::Pass) { Verdict::Pass } else { Verdict::Fail };
+    Ok(CheckReport {
+        scene: scene.name.clone(),
+        pressure,
+        verdict,
+        fingers,
+        objects,
+        recommended_pressure,
+        clashes,
+    })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn widest_run_picks_the_longest_contiguous_pass() {
+        assert_eq!(widest_run(&[false, true, true, false, true, true, true]), Some((4, 6)));
+        assert_eq!(widest_run(&[true, false]), Some((0, 0)));
+        assert_eq!(widest_run(&[false, false]), None);
+        assert_eq!(widest_run(&[]), None);
+        // ties go to the first run
+        assert_eq!(widest_run(&[true, true, false, true, true]), Some((0, 1)));
+    }
+}

@@ -88,6 +88,8 @@ fn outputs_that_are_inputs_or_collide_are_refused() {
         &["check", SCENE, "--json", "-", "--markdown", "-"],
         "--markdown -: --json already writes to stdout",
     );
+    let nowhere = tmp.path().join("no-such-folder/report.xml").display().to_string();
+    refused(&["check", SCENE, "--junit", &nowhere], "no-such-folder does not exist");
     assert_eq!(std::fs::read(repo(SCENE)).unwrap(), before);
     assert_eq!(std::fs::read(repo("scenes/meshes/bell-pepper.obj")).unwrap(), mesh_before);
     assert_eq!(std::fs::read_dir(tmp.path()).unwrap().count(), 0, "nothing written");

@@ -143,6 +143,15 @@ impl Config {
             match sink {
                 Sink::File(p) => {
                     refuse_overwrite(p, &inputs)?;
+                    // fail before a long check, not after it
+                    let dir = crate::scene_file::scene_dir(p);
+                    if !dir.is_dir() {
+                        return Err(AppError::input(format!(
+                            "{flag} {}: the folder {} does not exist",
+                            p.display(),
+                            dir.display()
+                        )));
+                    }
                     for (other, earlier) in &outputs[..i] {
                         if let Sink::File(q) = earlier
                             && same_file(p, q)

@@ -59,7 +59,10 @@ pub fn load_mesh(scene_dir: &Path, rel: &str, scale: f64) -> Result<TriangleMesh
 /// `scale` and converted from mm to m.
 ///
 /// # Errors
-/// As [`load_mesh`]; for an embedded table, a path that is not in it.
+/// A message that starts with the path as written: refused paths, unreadable files or
+/// (embedded) a path not in the table, unknown extensions, files that do not parse, no
+/// triangles, non-finite coordinates, out-of-range indices, only zero-area triangles,
+/// too many triangles, too large.
 pub fn load_mesh_from(source: MeshSource<'_>, rel: &str, scale: f64) -> Result<TriangleMesh, String> {
     let at = |msg: String| format!("\"{rel}\": {msg}");
     // The same path rules for both sources: a scene must not depend on where it is read from.

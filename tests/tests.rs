@@ -3,6 +3,8 @@
 
 mod util;
 
+// `arcfinger check`: usage errors found before the grasp check runs (exit 2, inputs untouched).
+mod check;
 // `arcfinger bend`: table, JSON contract, SVG plot on the demo scenes; usage errors.
 mod bend;
 // Bad scene files: messages with line:column or field path, exit code 2, no panic.

@@ -21,12 +21,36 @@ pub struct Opts {
 /// The commands.
 #[derive(Debug, Subcommand)]
 pub enum Command {
+    /// Grasp check: does the gripper touch, enclose and hold every object with margin?
+    Check(CheckArgs),
     /// Free-bending curve and blocked tip force of one actuator over a pressure range.
     Bend(BendArgs),
     /// List the built-in casting-silicone classes and their parameters.
     Materials(MaterialsArgs),
     /// Fit a hyperelastic model to stress-stretch test data (CSV) and print a material block.
     Fit(FitArgs),
+}
+
+/// `arcfinger check`.
+#[derive(Debug, Args)]
+pub struct CheckArgs {
+    /// Scene file (RON) [default: the bundled demo scene, packing-line-3f].
+    pub scene: Option<PathBuf>,
+    /// Write the JSON result to FILE (`-` = stdout; the table then goes to stderr).
+    #[arg(long, value_name = "FILE")]
+    pub json: Option<String>,
+    /// Write a JUnit XML report (one test case per object) to FILE (`-` = stdout).
+    #[arg(long, value_name = "FILE")]
+    pub junit: Option<String>,
+    /// Write a Markdown summary for a pull-request comment to FILE (`-` = stdout).
+    #[arg(long, value_name = "FILE")]
+    pub markdown: Option<String>,
+    /// Check at this supply pressure (kPa) instead of the scene's; at most the rated maximum.
+    #[arg(long, value_name = "KPA", allow_negative_numbers = true)]
+    pub pressure: Option<f64>,
+    /// Rod elements along each chamber (>= 40).
+    #[arg(long, value_name = "N", default_value_t = 40)]
+    pub elements: usize,
 }
 
 /// Which moment balance `bend` uses.

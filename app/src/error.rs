@@ -72,6 +72,15 @@ impl fmt::Display for AppError {
 
 impl std::error::Error for AppError {}
 
+/// The grasp check refused its input (a setting out of range, geometry the solvers
+/// cannot take): bad input, exit 2. Non-convergence is not an error of the check but an
+/// outcome inside its report.
+impl From<grasp_core::check::CheckError> for AppError {
+    fn from(e: grasp_core::check::CheckError) -> Self {
+        Self::Input(format!("grasp check: {e}"))
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -84,5 +93,10 @@ mod tests {
         assert_eq!(AppError::input("x").exit_code(), 2);
         assert_eq!(AppError::io("x", std::io::Error::other("y")).exit_code(), 2);
         assert_eq!(AppError::NotConverged("x".into()).exit_code(), 3);
+        let e = AppError::from(grasp_core::check::CheckError::BadSetting("elements 3 < 40".into()));
+        assert_eq!(
+            (e.exit_code(), e.to_string().as_str()),
+            (2, "grasp check: invalid setting: elements 3 < 40")
+        );
     }
 }

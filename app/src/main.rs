@@ -11,6 +11,7 @@ mod error;
 mod ordered_map;
 mod output;
 mod plot;
+mod report;
 mod scene_doc;
 mod scene_file;
 mod suggest;
@@ -44,6 +45,7 @@ fn main() -> ExitCode {
 
 fn run(opts: cli::Opts) -> Result<Outcome, AppError> {
     match opts.command {
+        cli::Command::Check(args) => commands::check::run(args),
         cli::Command::Bend(args) => commands::bend::run(args),
         cli::Command::Materials(args) => commands::materials::run(args),
         cli::Command::Fit(args) => commands::fit::run(args),

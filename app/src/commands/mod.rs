@@ -2,5 +2,6 @@
 //! and writes its reports.
 
 pub mod bend;
+pub mod check;
 pub mod fit;
 pub mod materials;

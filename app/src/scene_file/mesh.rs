@@ -7,6 +7,10 @@
 //! symbolic links) must still lie under the scene's folder. Only regular files up to
 //! [`MAX_FILE_BYTES`] are read.
 //!
+//! A scene built into the binary (the bundled demo) reads its meshes from an in-memory
+//! table instead ([`MeshSource::Embedded`]); the path is checked by the same rules and
+//! the bytes go through the same parsing and checks as a file's.
+//!
 //! Formats by extension: `.stl` (binary or ASCII, through `stl_io`) and `.obj` (through
 //! `tobj`, polygons triangulated as fans; `mtllib` references are not followed).
 //! Coordinates are millimetres times `scale`, converted to metres; the file's origin is
@@ -29,6 +33,16 @@ pub const MAX_FILE_BYTES: u64 = 128 * 1024 * 1024;
 /// dimension of a scene.
 pub const MAX_EXTENT_M: f64 = 10.0;
 
+/// Where the mesh files of a scene come from.
+#[derive(Debug, Clone, Copy)]
+pub enum MeshSource<'a> {
+    /// Files relative to the scene file's folder (and confined to it).
+    Folder(&'a Path),
+    /// An in-memory table of `(path as written in the scene, bytes)`, for a scene built
+    /// into the binary. Paths are compared after dropping `.` components.
+    Embedded(&'a [(&'a str, &'a [u8])]),
+}
+
 /// Reads and checks the mesh `rel` (as written in the scene) relative to `scene_dir`,
 /// scaled by `scale` and converted from mm to m.
 ///
@@ -36,9 +50,23 @@ pub const MAX_EXTENT_M: f64 = 10.0;
 /// A message that starts with the path as written: refused paths, unreadable files,
 /// unknown extensions, files that do not parse, no triangles, non-finite coordinates,
 /// out-of-range indices, only zero-area triangles, too many triangles, too large.
+#[cfg(test)]
 pub fn load_mesh(scene_dir: &Path, rel: &str, scale: f64) -> Result<TriangleMesh, String> {
+    load_mesh_from(MeshSource::Folder(scene_dir), rel, scale)
+}
+
+/// Reads and checks the mesh `rel` (as written in the scene) from `source`, scaled by
+/// `scale` and converted from mm to m.
+///
+/// # Errors
+/// A message that starts with the path as written: refused paths, unreadable files or
+/// (embedded) a path not in the table, unknown extensions, files that do not parse, no
+/// triangles, non-finite coordinates, out-of-range indices, only zero-area triangles,
+/// too many triangles, too large.
+pub fn load_mesh_from(source: MeshSource<'_>, rel: &str, scale: f64) -> Result<TriangleMesh, String> {
     let at = |msg: String| format!("\"{rel}\": {msg}");
-    let file = resolve(scene_dir, rel).map_err(at)?;
+    // The same path rules for both sources: a scene must not depend on where it is read from.
+    let file = resolve(Path::new(""), rel).map_err(at)?;
     let ext = file.extension().and_then(|e| e.to_str()).map(str::to_ascii_lowercase);
     let format = match ext.as_deref() {
         Some("stl") => Format::Stl,
@@ -48,7 +76,10 @@ pub fn load_mesh(scene_dir: &Path, rel: &str, scale: f64) -> Result<TriangleMesh
         }
         None => return Err(at("has no file extension: expected a .stl or .obj file".to_string())),
     };
-    let bytes = read_inside(scene_dir, &file).map_err(at)?;
+    let bytes = match source {
+        MeshSource::Folder(scene_dir) => read_inside(scene_dir, &scene_dir.join(&file)).map_err(at)?,
+        MeshSource::Embedded(table) => embedded(table, &file).map_err(at)?.to_vec(),
+    };
     let (vertices_mm, triangles) = match format {
         Format::Stl => parse_stl(&bytes),
         Format::Obj => parse_obj(&bytes),
@@ -85,6 +116,28 @@ fn resolve(scene_dir: &Path, rel: &str) -> Result<PathBuf, String> {
         return Err("`..` is refused: mesh files must lie in the scene file's folder or below it".to_string());
     }
     Ok(scene_dir.join(p))
+}
+
+/// Looks `file` (already checked by [`resolve`]) up in an embedded table.
+fn embedded<'a>(table: &[(&str, &'a [u8])], file: &Path) -> Result<&'a [u8], String> {
+    let normal =
+        |p: &Path| -> PathBuf { p.components().filter(|c| !matches!(c, Component::CurDir)).collect() };
+    let want = normal(file);
+    match table.iter().find(|(name, _)| normal(Path::new(name)) == want) {
+        Some((_, bytes)) if bytes.len() as u64 > MAX_FILE_BYTES => Err(format!(
+            "{} is {} bytes; mesh files of at most {MAX_FILE_BYTES} bytes are read",
+            file.display(),
+            bytes.len()
+        )),
+        Some((_, bytes)) => Ok(bytes),
+        None => {
+            let names: Vec<&str> = table.iter().map(|(n, _)| *n).collect();
+            Err(format!(
+                "is not one of the files built into arcfinger with this scene ({})",
+                if names.is_empty() { "none".to_string() } else { names.join(", ") }
+            ))
+        }
+    }
 }
 
 /// Reads `file` after checking that it resolves to a regular file under `scene_dir`.

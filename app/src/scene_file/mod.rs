@@ -11,6 +11,10 @@
 //!    line, as `FILE: PATH: must be ..., got ...`; mesh objects are read here
 //!    ([`mesh`]).
 //!
+//! [`load_embedded`] does the same for a scene built into the binary (the bundled demo),
+//! with its mesh files from an in-memory table: the same parsing, the same validation,
+//! the same mesh checks, only no file system.
+//!
 //! Every failure is an [`AppError::Input`] or [`AppError::Io`] (exit code 2). Input files
 //! are only ever read.
 
@@ -29,7 +33,8 @@ use grasp_core::scene::Scene;
 use crate::error::AppError;
 use crate::scene_doc::SceneDoc;
 
-pub use validate::{Problem, build_scene};
+pub use mesh::MeshSource;
+pub use validate::{Problem, build_scene, build_scene_from};
 
 /// Largest scene file read (bytes). Scenes are hand-written text of a few kilobytes;
 /// meshes live in their own files.
@@ -45,6 +50,19 @@ pub fn load(path: &Path) -> Result<Scene, AppError> {
     let text = read_source(path)?;
     let doc = parse_doc(&file, &text)?;
     build_scene(&doc, &scene_dir(path)).map_err(|problems| AppError::Input(format_problems(&file, &problems)))
+}
+
+/// Loads, validates and converts a scene given as text, named `name` in messages, whose
+/// mesh paths (as written in the scene) are looked up in `meshes`.
+///
+/// # Errors
+/// [`AppError::Input`] when it does not parse or does not validate (a mesh path that is
+/// not in `meshes` included), with the same messages as [`load`].
+pub fn load_embedded(name: &str, text: &str, meshes: &[(&str, &[u8])]) -> Result<Scene, AppError> {
+    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
+    let doc = parse_doc(name, text)?;
+    build_scene_from(&doc, MeshSource::Embedded(meshes))
+        .map_err(|problems| AppError::Input(format_problems(name, &problems)))
 }
 
 /// The folder mesh paths of the scene at `path` are relative to.

@@ -25,7 +25,7 @@ use grasp_core::scene::{
 };
 use grasp_core::section::{BoxSection, HalfRoundSection, SectionError, SectionModel, SectionProfile};
 
-use super::mesh::load_mesh;
+use super::mesh::{MeshSource, load_mesh_from};
 use crate::scene_doc::{
     ActuatorDoc, CriteriaDoc, MaterialDoc, MaterialModelDoc, ObjectDoc, PalmDoc, SceneDoc, SectionDoc,
     SectionModelDoc, ShapeDoc,
@@ -72,6 +72,14 @@ impl fmt::Display for Problem {
 /// # Errors
 /// Every problem found, in file order.
 pub fn build_scene(doc: &SceneDoc, scene_dir: &Path) -> Result<Scene, Vec<Problem>> {
+    build_scene_from(doc, MeshSource::Folder(scene_dir))
+}
+
+/// Checks `doc` and converts it to the SI scene, reading meshes from `meshes`.
+///
+/// # Errors
+/// Every problem found, in file order.
+pub fn build_scene_from(doc: &SceneDoc, meshes: MeshSource<'_>) -> Result<Scene, Vec<Problem>> {
     let mut c = Checker { problems: Vec::new() };
     if doc.name.trim().is_empty() {
         c.push("name", "must not be empty");
@@ -89,7 +97,7 @@ pub fn build_scene(doc: &SceneDoc, scene_dir: &Path) -> Result<Scene, Vec<Proble
     }
 
     let gripper = c.gripper(doc);
-    let objects = c.objects(&doc.objects, scene_dir);
+    let objects = c.objects(&doc.objects, meshes);
     let criteria = c.criteria(doc);
 
     if !c.problems.is_empty() {
@@ -531,7 +539,7 @@ impl Checker {
 
     // ---- objects --------------------------------------------------------------------
 
-    fn objects(&mut self, objects: &[ObjectDoc], scene_dir: &Path) -> Option<Vec<TargetObject>> {
+    fn objects(&mut self, objects: &[ObjectDoc], meshes: MeshSource<'_>) -> Option<Vec<TargetObject>> {
         if objects.is_empty() {
             self.push("objects", "must list at least one object, got none");
         }
@@ -547,7 +555,7 @@ impl Checker {
                     format!("duplicate name \"{}\": objects[{first}] already uses it", o.name),
                 );
             }
-            let shape = self.shape(&p("shape"), &o.shape, scene_dir);
+            let shape = self.shape(&p("shape"), &o.shape, meshes);
             let mass = self
                 .positive(&p("mass_g"), o.mass_g)
                 .and_then(|m| self.at_most(&p("mass_g"), m, MAX_MASS_G, " g", "100 kg; is it in g?"));
@@ -573,7 +581,7 @@ impl Checker {
         all_ok.then_some(out)
     }
 
-    fn shape(&mut self, path: &str, s: &ShapeDoc, scene_dir: &Path) -> Option<ObjectShape> {
+    fn shape(&mut self, path: &str, s: &ShapeDoc, meshes: MeshSource<'_>) -> Option<ObjectShape> {
         let p = |f: &str| format!("{path}.{f}");
         let positive_len = |c: &mut Self, path: &str, v: f64| c.length(path, v, false);
         match s {
@@ -598,7 +606,7 @@ impl Checker {
             }),
             ShapeDoc::Mesh { path: file, scale } => {
                 let scale = self.positive(&p("scale"), *scale)?;
-                match load_mesh(scene_dir, file, scale) {
+                match load_mesh_from(meshes, file, scale) {
                     Ok(mesh) => Some(ObjectShape::Mesh { mesh, source: file.clone() }),
                     Err(e) => {
                         self.push(p("path"), e);

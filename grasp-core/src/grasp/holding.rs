@@ -25,7 +25,8 @@
 //!
 //! # Solution
 //! Solved with the interior-point conic solver clarabel (Goulart & Chen, "Clarabel: An
-//! interior-point solver for conic programs with quadratic objectives", 2024), in its form
+//! interior-point solver for conic programs with quadratic objectives", arXiv,
+//! 2024), in its form
 //! `minimise q'x s.t. A x + z = b, z in K` with `K` = zero cone (6 balance rows) x
 //! non-negative cone (normal-force bounds) x one `SecondOrderConeT(3)` per contact with
 //! friction, on `z = (mu f_n, a, b)`. Before the solve the problem is made dimensionless:
@@ -166,7 +167,7 @@ pub struct HoldingSettings {
 }
 
 impl Default for HoldingSettings {
-    /// At most 100 interior-point iterations (a typical solve takes 8–15), and a relative
+    /// At most 100 interior-point iterations (the solves in the tests take 6–13), and a relative
     /// gap and feasibility tolerance of `1e-9`.
     fn default() -> Self {
         Self { max_iterations: 100, tolerance: 1e-9 }

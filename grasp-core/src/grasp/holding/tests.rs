@@ -186,6 +186,27 @@ fn zero_friction_ring_holds_nothing() {
     }
 }
 
+/// Sign convention for torques (statics of a couple): frictionless contacts at
+/// `c - d y` pushing `+x` and at `c + d y` pushing `-x` form a couple of moment
+/// `+2 d f` about `+z` (`(-d y) x (f x) = d f z`, `(d y) x (-f x) = d f z`) and nothing
+/// else. They balance a load torque `T = -z` up to `s = 2 d N`, and cannot balance
+/// `T = +z` at all.
+#[test]
+fn torque_load_sign_convention() {
+    let (d, n) = (0.02, 3.0);
+    let c = Vec3::new(0.01, 0.0, -0.05);
+    let grasp = [
+        contact(c - Vec3::new(0.0, d, 0.0), Vec3::X, n, 0.0, 0),
+        contact(c + Vec3::new(0.0, d, 0.0), Vec3::NEG_X, n, 0.0, 1),
+    ];
+    let negative = LoadCase::new("-z torque", Vec3::ZERO, Vec3::NEG_Z).unwrap();
+    let r = solved(&grasp, c, &negative);
+    assert_relative_eq!(r.scale, 2.0 * d * n, max_relative = 1e-7);
+    let positive = LoadCase::new("+z torque", Vec3::ZERO, Vec3::Z).unwrap();
+    let r = solved(&grasp, c, &positive);
+    assert!(r.scale < 1e-8, "{}", r.scale);
+}
+
 #[test]
 fn no_contacts_and_unloaded_contacts_give_zero() {
     let lift = &load_cases(0.1, 5.0, 3.0).unwrap()[0];

@@ -333,9 +333,9 @@ mod tests {
         assert!(f.iter().all(|f| (f.offset - 1.0).abs() < 1e-12));
     }
 
-    /// The 6-D cross-polytope (`+-e_k`): 2^6 = 64 facets, each at distance `1/sqrt(6)` from
-    /// the centre (closed form of the regular cross-polytope, Coxeter, "Regular
-    /// Polytopes", 1973, from memory).
+    /// The 6-D cross-polytope (`+-e_k`): 2^6 = 64 simplex facets `sum_k s_k x_k = 1`
+    /// (one per sign pattern `s`), each at distance `1/sqrt(6)` from the centre
+    /// (elementary geometry).
     #[test]
     fn cross_polytope_6d() {
         let mut pts = Vec::new();

@@ -391,9 +391,12 @@ fn pyramid_lp(contacts: &[GraspContact], com: Vec3, load: &LoadCase, k: usize, r
             let f = n + rho * c.friction * (phi.cos() * t1 + phi.sin() * t2);
             let moment = (c.point - com).cross(f);
             let l = p.add_var(0.0, (0.0, f64::INFINITY));
+            // Round-off residues (1e-17 where a component is zero) are dropped: the simplex
+            // code refuses rows whose coefficients span more than about 1e6.
+            let clean = |x: f64| if x.abs() < 1e-12 { 0.0 } else { x };
             for d in 0..3 {
-                rows[d].push((l, f[d]));
-                rows[3 + d].push((l, moment[d]));
+                rows[d].push((l, clean(f[d])));
+                rows[3 + d].push((l, clean(moment[d])));
             }
             budget.push((l, 1.0));
         }

@@ -371,16 +371,22 @@ fn irregular_grasp(c: Vec3) -> Vec<GraspContact> {
 
 /// The holding program with each Coulomb cone replaced by a `k`-edge pyramid
 /// `f = sum_j l_j (n + rho mu (cos phi_j t1 + sin phi_j t2))`, `l_j >= 0`, `sum_j l_j <= N`,
-/// `phi_j = 2 pi (j + phase) / k`, solved by the simplex method of microlp (a
-/// general-purpose LP solver, independent of clarabel). `rho = 1` with phase 0 gives the
-/// inscribed pyramid; `rho = 1 / cos(pi/k)` the circumscribed one.
+/// `phi_j = 2 pi j / k`, solved by the simplex method of microlp (a
+/// general-purpose LP solver, independent of clarabel). `rho = 1` gives the inscribed
+/// pyramid; `rho = 1 / cos(pi/k)` the circumscribed one.
 fn pyramid_lp(contacts: &[GraspContact], com: Vec3, load: &LoadCase, k: usize, rho: f64) -> f64 {
+    // Torque rows are divided by the largest lever arm: the same equations, but with
+    // coefficients of the force rows' size, so that the LP's absolute feasibility
+    // tolerance means the same on both (with arms of a few mm it otherwise admits a
+    // spurious margin of ~1e-5).
+    let arm = contacts.iter().map(|c| (c.point - com).length()).fold(0.0, f64::max);
+    let length = if arm > 0.0 { arm } else { 1.0 };
     let mut p = Problem::new(OptimizationDirection::Maximize);
     let s = p.add_var(1.0, (0.0, f64::INFINITY));
     let mut rows: Vec<Vec<(Variable, f64)>> = vec![Vec::new(); 6];
     for d in 0..3 {
         rows[d].push((s, load.force[d]));
-        rows[3 + d].push((s, load.torque[d]));
+        rows[3 + d].push((s, load.torque[d] / length));
     }
     for c in contacts {
         let (n, t1, t2) = c.frame();
@@ -389,7 +395,7 @@ fn pyramid_lp(contacts: &[GraspContact], com: Vec3, load: &LoadCase, k: usize, r
         for j in 0..edges {
             let phi = TAU * j as f64 / k as f64;
             let f = n + rho * c.friction * (phi.cos() * t1 + phi.sin() * t2);
-            let moment = (c.point - com).cross(f);
+            let moment = (c.point - com).cross(f) / length;
             let l = p.add_var(0.0, (0.0, f64::INFINITY));
             // Round-off residues (1e-17 where a component is zero) are dropped: the simplex
             // code refuses rows whose coefficients span more than about 1e6.

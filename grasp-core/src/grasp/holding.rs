@@ -319,7 +319,8 @@ impl HoldingResult {
 ///     finger,
 /// };
 /// let weight = LoadCase::new("1 N down", Vec3::new(0.0, 0.0, -1.0), Vec3::ZERO)?;
-/// let r = holding_scale(&[pinch(0.03, 0), pinch(-0.03, 1)], Vec3::ZERO, &weight, &HoldingSettings::default())?;
+/// let grasp = [pinch(0.03, 0), pinch(-0.03, 1)];
+/// let r = holding_scale(&grasp, Vec3::ZERO, &weight, &HoldingSettings::default())?;
 /// assert_eq!(r.status, HoldingStatus::Solved);
 /// assert!((r.scale - 2.0).abs() < 1e-6);
 /// # Ok::<(), grasp_core::grasp::HoldingError>(())

@@ -186,6 +186,27 @@ fn zero_friction_ring_holds_nothing() {
     }
 }
 
+/// Sign convention for torques (statics of a couple): frictionless contacts at
+/// `c - d y` pushing `+x` and at `c + d y` pushing `-x` form a couple of moment
+/// `+2 d f` about `+z` (`(-d y) x (f x) = d f z`, `(d y) x (-f x) = d f z`) and nothing
+/// else. They balance a load torque `T = -z` up to `s = 2 d N`, and cannot balance
+/// `T = +z` at all.
+#[test]
+fn torque_load_sign_convention() {
+    let (d, n) = (0.02, 3.0);
+    let c = Vec3::new(0.01, 0.0, -0.05);
+    let grasp = [
+        contact(c - Vec3::new(0.0, d, 0.0), Vec3::X, n, 0.0, 0),
+        contact(c + Vec3::new(0.0, d, 0.0), Vec3::NEG_X, n, 0.0, 1),
+    ];
+    let negative = LoadCase::new("-z torque", Vec3::ZERO, Vec3::NEG_Z).unwrap();
+    let r = solved(&grasp, c, &negative);
+    assert_relative_eq!(r.scale, 2.0 * d * n, max_relative = 1e-7);
+    let positive = LoadCase::new("+z torque", Vec3::ZERO, Vec3::Z).unwrap();
+    let r = solved(&grasp, c, &positive);
+    assert!(r.scale < 1e-8, "{}", r.scale);
+}
+
 #[test]
 fn no_contacts_and_unloaded_contacts_give_zero() {
     let lift = &load_cases(0.1, 5.0, 3.0).unwrap()[0];
@@ -350,16 +371,22 @@ fn irregular_grasp(c: Vec3) -> Vec<GraspContact> {
 
 /// The holding program with each Coulomb cone replaced by a `k`-edge pyramid
 /// `f = sum_j l_j (n + rho mu (cos phi_j t1 + sin phi_j t2))`, `l_j >= 0`, `sum_j l_j <= N`,
-/// `phi_j = 2 pi (j + phase) / k`, solved by the simplex method of microlp (a
-/// general-purpose LP solver, independent of clarabel). `rho = 1` with phase 0 gives the
-/// inscribed pyramid; `rho = 1 / cos(pi/k)` the circumscribed one.
+/// `phi_j = 2 pi j / k`, solved by the simplex method of microlp (a
+/// general-purpose LP solver, independent of clarabel). `rho = 1` gives the inscribed
+/// pyramid; `rho = 1 / cos(pi/k)` the circumscribed one.
 fn pyramid_lp(contacts: &[GraspContact], com: Vec3, load: &LoadCase, k: usize, rho: f64) -> f64 {
+    // Torque rows are divided by the largest lever arm: the same equations, but with
+    // coefficients of the force rows' size, so that the LP's absolute feasibility
+    // tolerance means the same on both (with arms of a few mm it otherwise admits a
+    // spurious margin of ~1e-5).
+    let arm = contacts.iter().map(|c| (c.point - com).length()).fold(0.0, f64::max);
+    let length = if arm > 0.0 { arm } else { 1.0 };
     let mut p = Problem::new(OptimizationDirection::Maximize);
     let s = p.add_var(1.0, (0.0, f64::INFINITY));
     let mut rows: Vec<Vec<(Variable, f64)>> = vec![Vec::new(); 6];
     for d in 0..3 {
         rows[d].push((s, load.force[d]));
-        rows[3 + d].push((s, load.torque[d]));
+        rows[3 + d].push((s, load.torque[d] / length));
     }
     for c in contacts {
         let (n, t1, t2) = c.frame();
@@ -368,11 +395,14 @@ fn pyramid_lp(contacts: &[GraspContact], com: Vec3, load: &LoadCase, k: usize, r
         for j in 0..edges {
             let phi = TAU * j as f64 / k as f64;
             let f = n + rho * c.friction * (phi.cos() * t1 + phi.sin() * t2);
-            let moment = (c.point - com).cross(f);
+            let moment = (c.point - com).cross(f) / length;
             let l = p.add_var(0.0, (0.0, f64::INFINITY));
+            // Round-off residues (1e-17 where a component is zero) are dropped: the simplex
+            // code refuses rows whose coefficients span more than about 1e6.
+            let clean = |x: f64| if x.abs() < 1e-12 { 0.0 } else { x };
             for d in 0..3 {
-                rows[d].push((l, f[d]));
-                rows[3 + d].push((l, moment[d]));
+                rows[d].push((l, clean(f[d])));
+                rows[3 + d].push((l, clean(moment[d])));
             }
             budget.push((l, 1.0));
         }

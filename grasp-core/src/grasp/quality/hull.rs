@@ -244,6 +244,7 @@ pub(crate) fn convex_hull<const D: usize>(points: &[[f64; D]]) -> Hull<D> {
     let rest: Vec<usize> = (0..points.len()).filter(|i| !chosen.contains(i)).collect();
     b.assign(rest, &initial);
 
+    let mut live = initial;
     let mut next = 0;
     while next < b.facets.len() {
         if !b.alive[next] || b.outside[next].is_empty() {
@@ -256,8 +257,7 @@ pub(crate) fn convex_hull<const D: usize>(points: &[[f64; D]]) -> Hull<D> {
         });
         let Some((eye, _)) = eye else { break };
 
-        let visible: Vec<usize> =
-            (0..b.facets.len()).filter(|&f| b.alive[f] && b.distance(f, eye) > tolerance).collect();
+        let visible: Vec<usize> = live.iter().copied().filter(|&f| b.distance(f, eye) > tolerance).collect();
         let mut ridges: BTreeMap<[usize; D], u32> = BTreeMap::new();
         for &f in &visible {
             for skip in 0..D {
@@ -283,6 +283,9 @@ pub(crate) fn convex_hull<const D: usize>(points: &[[f64; D]]) -> Hull<D> {
         }
         orphans.retain(|&p| p != eye);
         b.assign(orphans, &created);
+        // Live facets in creation order: the survivors, then the new ones.
+        live.retain(|&f| b.alive[f]);
+        live.extend_from_slice(&created);
     }
 
     let facets: Vec<Facet<D>> =
@@ -333,9 +336,9 @@ mod tests {
         assert!(f.iter().all(|f| (f.offset - 1.0).abs() < 1e-12));
     }
 
-    /// The 6-D cross-polytope (`+-e_k`): 2^6 = 64 facets, each at distance `1/sqrt(6)` from
-    /// the centre (closed form of the regular cross-polytope, Coxeter, "Regular
-    /// Polytopes", 1973, from memory).
+    /// The 6-D cross-polytope (`+-e_k`): 2^6 = 64 simplex facets `sum_k s_k x_k = 1`
+    /// (one per sign pattern `s`), each at distance `1/sqrt(6)` from the centre
+    /// (elementary geometry).
     #[test]
     fn cross_polytope_6d() {
         let mut pts = Vec::new();

@@ -174,17 +174,15 @@ fn evaluate(
         let is_lift = matches!(m.case.kind, grasp::LoadKind::Lift);
         let worst = if is_lift { lift } else { lateral_min };
         // one reason per kind: the lift case, and the weakest lateral case
-        if m.result.scale < criteria.safety_factor && m.result.scale == worst {
-            if !failures
-                .iter()
-                .any(|f| matches!(f, Failure::Holding { case, .. } if is_lift == (case == "lift")))
-            {
-                failures.push(Failure::Holding {
-                    case: m.case.name.clone(),
-                    margin: m.result.scale,
-                    need: criteria.safety_factor,
-                });
-            }
+        let already = failures
+            .iter()
+            .any(|f| matches!(f, Failure::Holding { case, .. } if is_lift == (case == "lift")));
+        if m.result.scale < criteria.safety_factor && m.result.scale == worst && !already {
+            failures.push(Failure::Holding {
+                case: m.case.name.clone(),
+                margin: m.result.scale,
+                need: criteria.safety_factor,
+            });
         }
     }
     let epsilon = if grasp_contacts.is_empty() {

@@ -234,16 +234,53 @@ impl Problem<'_> {
                 }
             }
         }
-        for load in self.loads {
-            let f = t * load.force;
-            let d = point_derivatives(self.rod, angles, load.point).ok()?;
-            for (k, d1) in d.first {
+        // Dead loads. A load's position is the chain of full element chords before it
+        // plus its own partial arc, so the chords' terms are shared: each full chord j is
+        // differentiated once and weighted by the sum of the loads beyond it (O(n) in all
+        // instead of O(n) per load).
+        let n = self.rod.elements;
+        let h = self.rod.element_length();
+        let angle = |j: usize| if j == 0 { 0.0 } else { angles[j - 1] };
+        let mut apply = |d: &PointDerivatives, f: Vec2, r: &mut DVector<f64>| {
+            for &(k, d1) in &d.first {
                 r[k] -= f.dot(d1);
             }
             if let Some(jm) = jac.as_mut() {
-                for (k, l, d2) in d.second {
+                for &(k, l, d2) in &d.second {
                     jm[(k, l)] -= f.dot(d2);
                 }
+            }
+        };
+        // on[j]: loads whose own arc is on element j (j < n), or on the cap (j = n)
+        let mut on = vec![Vec2::ZERO; n + 1];
+        let mut scratch = PointDerivatives::default();
+        for load in self.loads {
+            let f = t * load.force;
+            scratch.first.clear();
+            scratch.second.clear();
+            match self.rod.segment(load.point.s).ok()? {
+                Segment::Base => continue,
+                Segment::Element(i, a) => {
+                    on[i] += f;
+                    scratch.add_arc(i, a, a / h, angle(i), angle(i + 1), load.point.y);
+                }
+                Segment::Cap(a) => {
+                    on[n] += f;
+                    let psi = angles[n - 1];
+                    scratch.first.push((n - 1, a * normal(psi) + load.point.y * direction(psi)));
+                    scratch.second.push((n - 1, n - 1, -a * direction(psi) - load.point.y * section_up(psi)));
+                }
+            }
+            apply(&scratch, f, &mut r);
+        }
+        let mut beyond = Vec2::ZERO;
+        for j in (0..n).rev() {
+            beyond += on[j + 1];
+            if beyond != Vec2::ZERO {
+                scratch.first.clear();
+                scratch.second.clear();
+                scratch.add_arc(j, h, 1.0, angle(j), angle(j + 1), 0.0);
+                apply(&scratch, beyond, &mut r);
             }
         }
         for (c, con) in self.constraints.iter().enumerate() {
@@ -294,7 +331,7 @@ impl Problem<'_> {
                 return (it, Ok(()));
             }
             let Some(jm) = e.jacobian.take() else { return (it, Err(SolveStatus::Singular)) };
-            let Some(mut dz) = jm.lu().solve(&(-&e.residual)) else {
+            let Some(mut dz) = kkt_solve(jm, &e.residual, nd) else {
                 return (it + 1, Err(SolveStatus::Singular));
             };
             let big = dz.rows(0, nd).amax();
@@ -331,6 +368,30 @@ impl Problem<'_> {
             (budget.min(MAX_NEWTON_PER_STEP), Err(SolveStatus::IterationLimit))
         }
     }
+}
+
+/// Solves the Newton system `J dz = -r`. When constraints are linearly dependent (two
+/// gaps on the same material point, say) the KKT matrix is singular although the step is
+/// well defined; the retry adds a tiny negative diagonal to the multiplier block, which
+/// picks the least-norm multipliers (a standard regularisation of degenerate KKT systems;
+/// Nocedal & Wright 2006, section 16.2).
+fn kkt_solve(jm: DMatrix<f64>, residual: &DVector<f64>, nd: usize) -> Option<DVector<f64>> {
+    let rhs = -residual;
+    if let Some(dz) = jm.clone().lu().solve(&rhs)
+        && dz.iter().all(|v| v.is_finite())
+    {
+        return Some(dz);
+    }
+    let n = jm.nrows();
+    if n == nd {
+        return None;
+    }
+    let scale = (0..nd).map(|i| jm[(i, i)].abs()).fold(0.0, f64::max).max(f64::MIN_POSITIVE);
+    let mut reg = jm;
+    for i in nd..n {
+        reg[(i, i)] -= 1e-12 * scale;
+    }
+    reg.lu().solve(&rhs).filter(|dz| dz.iter().all(|v| v.is_finite()))
 }
 
 /// Solves the rod's equilibrium under dead point loads and point constraints.

@@ -370,3 +370,27 @@ fn blocked_curve_stops_at_the_limit_point_of_the_held_branch() {
     let BlockedOutcome::Held { force, .. } = &curve[4] else { panic!() };
     assert_relative_eq!(*force, single.force, max_relative = 1e-9);
 }
+
+/// A uniformly distributed load `q` on a linear cantilever, lumped at the 40 element
+/// midpoints (as the finger's own weight is), deflects the tip by `q L^4 / (8 EI)` in the
+/// small-deflection limit (Euler–Bernoulli; Timoshenko & Gere, "Mechanics of Materials",
+/// 1972, table of beam deflections). Exercises the shared-chord assembly of many loads.
+#[test]
+fn distributed_load_matches_the_euler_bernoulli_cantilever() {
+    let (l, ei) = (0.1, 2e-3);
+    let rod = Rod::new(0.0, l, 0.0, 40).unwrap();
+    let law = LinearLaw { stiffness: ei, rest_curvature: 0.0 };
+    let q = 1e-3 * 8.0 * ei / l.powi(4); // tip deflection 1e-3 L: geometric nonlinearity ~1e-6
+    let h = rod.element_length();
+    let loads: Vec<PointLoad> = (0..rod.elements)
+        .map(|i| PointLoad {
+            point: MaterialPoint { s: h * (i as f64 + 0.5), y: 0.0 },
+            force: Vec2::new(q * h, 0.0),
+        })
+        .collect();
+    let sol = solve(&rod, &law, &loads, &[], None).unwrap();
+    assert!(sol.report.converged());
+    let tip = sol.nodes.last().unwrap().x;
+    // midpoint lumping is second order: 40 elements leave ~1e-4 relative
+    assert_relative_eq!(tip, q * l.powi(4) / (8.0 * ei), max_relative = 5e-4);
+}

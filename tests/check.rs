@@ -1,7 +1,8 @@
 //! `arcfinger check`: the usage errors that are found before the grasp check runs (bad
 //! scene, `--pressure` above the rating, `--elements`, output paths that are inputs or
 //! clash). Each is exit code 2 with a message naming the place and what is expected, and
-//! no input is touched. The check's results themselves are not exercised here.
+//! no input is touched. One small scene runs the check itself and tests the JSON
+//! contract and the symmetry of the contacts.
 
 use crate::util::{TempDir, arcfinger, arcfinger_in, repo};
 
@@ -93,4 +94,67 @@ fn outputs_that_are_inputs_or_collide_are_refused() {
     assert_eq!(std::fs::read(repo(SCENE)).unwrap(), before);
     assert_eq!(std::fs::read(repo("scenes/meshes/bell-pepper.obj")).unwrap(), mesh_before);
     assert_eq!(std::fs::read_dir(tmp.path()).unwrap().count(), 0, "nothing written");
+}
+
+/// `check` on the three-finger demo gripper around one centred ball (tests/data): the
+/// JSON has the keys of DESIGN 4.3; the gripper is symmetric under rotations of 120°
+/// about z and so is the ball, so every finger touches and the three contacts carry the
+/// same normal force and sit at the same height (symmetry, no reference needed); contacts
+/// lie on the sphere with unit normals along the radius into it; and the verdict agrees
+/// with the reported margins and the scene's criteria.
+#[test]
+fn symmetric_gripper_on_a_centred_ball_gives_symmetric_contacts() {
+    let run = arcfinger(&["check", "tests/data/check-ball-3f.ron", "--json", "-"]);
+    assert!(run.code == 0 || run.code == 1, "exit {}: {}", run.code, run.stderr);
+    let doc: serde_json::Value = serde_json::from_str(&run.stdout).expect("JSON on stdout");
+    assert_eq!(doc["format"], "arcfinger/check/1");
+    assert_eq!(doc["pressure_kpa"].as_f64(), Some(40.0));
+    for key in ["scene", "verdict", "fingers", "objects", "recommended_pressure_kpa"] {
+        assert!(doc.get(key).is_some(), "missing {key}");
+    }
+    assert_eq!(doc["fingers"].as_array().unwrap().len(), 3);
+    let ball = &doc["objects"][0];
+    for key in [
+        "name",
+        "verdict",
+        "reasons",
+        "fingers_in_contact",
+        "contacts",
+        "enclosure",
+        "epsilon",
+        "holding",
+        "peak_contact_force_n",
+        "pressure_window_kpa",
+    ] {
+        assert!(ball.get(key).is_some(), "missing objects[0].{key}");
+    }
+    assert_eq!(ball["fingers_in_contact"].as_u64(), Some(3));
+    let contacts = ball["contacts"].as_array().unwrap();
+    let centre = [0.0, 0.0, -75.0];
+    let mut per_finger = [0.0f64; 3];
+    let mut heights = [f64::NAN; 3];
+    for c in contacts {
+        let p: Vec<f64> = c["point_mm"].as_array().unwrap().iter().map(|v| v.as_f64().unwrap()).collect();
+        let n: Vec<f64> = c["normal"].as_array().unwrap().iter().map(|v| v.as_f64().unwrap()).collect();
+        let d: Vec<f64> = (0..3).map(|i| p[i] - centre[i]).collect();
+        let r = d.iter().map(|x| x * x).sum::<f64>().sqrt();
+        assert!((r - 34.0).abs() < 1e-3, "contact {p:?} not on the sphere (r = {r})");
+        let dot: f64 = (0..3).map(|i| -d[i] / r * n[i]).sum();
+        assert!(dot > 1.0 - 1e-6, "normal {n:?} not along the radius into the ball");
+        let f = c["finger"].as_u64().unwrap() as usize;
+        per_finger[f] += c["normal_force_n"].as_f64().unwrap();
+        heights[f] = p[2];
+    }
+    for f in 1..3 {
+        assert!((per_finger[f] / per_finger[0] - 1.0).abs() < 1e-6, "forces {per_finger:?}");
+        assert!((heights[f] - heights[0]).abs() < 1e-6, "heights {heights:?}");
+    }
+    let lift = ball["holding"]["lift"].as_f64().unwrap();
+    let lateral = ball["holding"]["lateral_min"].as_f64().unwrap();
+    let peak = ball["peak_contact_force_n"].as_f64().unwrap();
+    let enclosure = ball["enclosure"].as_f64().unwrap();
+    // criteria of the scene: safety factor 2, 2 fingers, enclosure 0.4, force limit 6 N
+    let should_pass = lift >= 2.0 && lateral >= 2.0 && peak <= 6.0 && enclosure >= 0.4;
+    assert_eq!(ball["verdict"] == "pass", should_pass, "{ball}");
+    assert_eq!(run.code == 0, should_pass);
 }

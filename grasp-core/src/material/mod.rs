@@ -238,14 +238,18 @@ impl StrainEnergy for HyperelasticModel {
     }
     fn planar_stress(&self, l: f64) -> f64 {
         match self {
+            Self::NeoHookean(m) => m.planar_stress(l),
+            Self::MooneyRivlin(m) => m.planar_stress(l),
+            Self::Yeoh(m) => m.planar_stress(l),
             Self::Ogden(m) => m.planar_stress(l),
-            _ => self.stress_1(l, 1.0),
         }
     }
     fn planar_tangent(&self, l: f64) -> f64 {
         match self {
+            Self::NeoHookean(m) => m.planar_tangent(l),
+            Self::MooneyRivlin(m) => m.planar_tangent(l),
+            Self::Yeoh(m) => m.planar_tangent(l),
             Self::Ogden(m) => m.planar_tangent(l),
-            _ => self.stress_1_d1(l, 1.0),
         }
     }
 }
@@ -275,7 +279,8 @@ pub(crate) mod test_support {
 
     /// Energy zero at identity, stress zero at identity, `dW/dl1` and `d2W/dl1^2` equal to
     /// central differences, planar tangent at 1 equal to `4 mu`, and `s2 = 0` in uniaxial
-    /// tension (`dW/dl2` at the uniaxial state, by the symmetry `W(l1,l2) = W(l2,l1)`).
+    /// tension (`dW/dl2` at the uniaxial state, by the symmetry `W(l1,l2) = W(l2,l1)`), and
+    /// the planar shortcuts equal to the general forms at `l2 = 1`.
     pub fn check_model(m: &dyn StrainEnergy) {
         let mu = m.shear_modulus();
         assert_relative_eq!(m.strain_energy(1.0, 1.0), 0.0, epsilon = 1e-12 * mu);
@@ -288,6 +293,15 @@ pub(crate) mod test_support {
                 let fd2 = central_difference(|x| m.stress_1(x, l2), l1);
                 assert_relative_eq!(m.stress_1_d1(l1, l2), fd2, epsilon = 1e-6 * mu, max_relative = 1e-6);
             }
+            // the planar shortcuts (closed forms of the section law's inner loop) equal the
+            // general reduced-energy derivatives at l2 = 1
+            assert_relative_eq!(
+                m.planar_stress(l1),
+                m.stress_1(l1, 1.0),
+                epsilon = 1e-9 * mu,
+                max_relative = 1e-12
+            );
+            assert_relative_eq!(m.planar_tangent(l1), m.stress_1_d1(l1, 1.0), max_relative = 1e-12);
             // lateral stress of uniaxial tension: dW/dl2 at (l, l^-1/2) = stress_1 with roles swapped
             let lat = m.stress_1(l1.powf(-0.5), l1);
             assert_relative_eq!(lat, 0.0, epsilon = 1e-9 * mu.max(m.uniaxial_stress(l1).abs()));

@@ -48,6 +48,15 @@ impl StrainEnergy for MooneyRivlin {
     fn shear_modulus(&self) -> f64 {
         2.0 * (self.c10 + self.c01)
     }
+    /// `2 (C10 + C01)(l - l^-3)`.
+    fn planar_stress(&self, l: f64) -> f64 {
+        2.0 * (self.c10 + self.c01) * (l - 1.0 / (l * l * l))
+    }
+    /// `2 (C10 + C01)(1 + 3 l^-4)`.
+    fn planar_tangent(&self, l: f64) -> f64 {
+        let l2 = l * l;
+        2.0 * (self.c10 + self.c01) * (1.0 + 3.0 / (l2 * l2))
+    }
 }
 
 #[cfg(test)]

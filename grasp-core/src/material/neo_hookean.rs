@@ -45,6 +45,16 @@ impl StrainEnergy for NeoHookean {
     fn shear_modulus(&self) -> f64 {
         self.mu
     }
+    /// `mu (l - l^-3)`, the closed form of the inner loop of the section law.
+    fn planar_stress(&self, l: f64) -> f64 {
+        let l3 = l * l * l;
+        self.mu * (l - 1.0 / l3)
+    }
+    /// `mu (1 + 3 l^-4)`.
+    fn planar_tangent(&self, l: f64) -> f64 {
+        let l2 = l * l;
+        self.mu * (1.0 + 3.0 / (l2 * l2))
+    }
 }
 
 #[cfg(test)]

@@ -55,6 +55,23 @@ impl StrainEnergy for Yeoh {
     fn shear_modulus(&self) -> f64 {
         2.0 * self.c[0]
     }
+    /// `2 (l - l^-3) W1`, `W1 = C10 + 2 C20 x + 3 C30 x^2`, `x = l^2 + l^-2 - 2`.
+    fn planar_stress(&self, l: f64) -> f64 {
+        let [c1, c2, c3] = self.c;
+        let l2 = l * l;
+        let x = l2 + 1.0 / l2 - 2.0;
+        2.0 * (l - 1.0 / (l2 * l)) * (c1 + x * (2.0 * c2 + 3.0 * c3 * x))
+    }
+    /// `2 (1 + 3 l^-4) W1 + 2 (l - l^-3) W1' dx/dl`, `dx/dl = 2 (l - l^-3)`.
+    fn planar_tangent(&self, l: f64) -> f64 {
+        let [c1, c2, c3] = self.c;
+        let l2 = l * l;
+        let x = l2 + 1.0 / l2 - 2.0;
+        let a = l - 1.0 / (l2 * l);
+        let w1 = c1 + x * (2.0 * c2 + 3.0 * c3 * x);
+        let w11 = 2.0 * c2 + 6.0 * c3 * x;
+        2.0 * (1.0 + 3.0 / (l2 * l2)) * w1 + 4.0 * a * a * w11
+    }
 }
 
 #[cfg(test)]

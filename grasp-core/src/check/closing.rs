@@ -246,7 +246,9 @@ pub fn close_finger(
         None => (0.0, vec![0.0; rod.dofs()]),
     };
     let span = (pressure - p_done).abs().max(1.0);
-    let mut dp = (pressure - p_done) / RAMP_STEPS as f64;
+    // from straight, ramp in RAMP_STEPS; from a nearby closed state (a sweep), try the
+    // whole step first
+    let mut dp = if start.is_some() { pressure - p_done } else { (pressure - p_done) / RAMP_STEPS as f64 };
     let mut report = SolveReport {
         status: SolveStatus::Converged,
         iterations: 0,

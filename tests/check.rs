@@ -4,7 +4,7 @@
 //! no input is touched. One small scene runs the check itself and tests the JSON
 //! contract and the symmetry of the contacts.
 
-use crate::util::{TempDir, arcfinger, arcfinger_in, repo};
+use crate::util::{TempDir, arcfinger, arcfinger_env, arcfinger_in, repo};
 
 const SCENE: &str = "scenes/packing-line-3f.ron";
 
@@ -157,4 +157,17 @@ fn symmetric_gripper_on_a_centred_ball_gives_symmetric_contacts() {
     let should_pass = lift >= 2.0 && lateral >= 2.0 && peak <= 6.0 && enclosure >= 0.4;
     assert_eq!(ball["verdict"] == "pass", should_pass, "{ball}");
     assert_eq!(run.code == 0, should_pass);
+}
+
+/// The check's JSON is byte-identical whatever the number of threads that evaluate the
+/// objects (rayon, objects in parallel, results collected in scene order).
+#[test]
+fn json_is_identical_for_one_and_two_threads() {
+    let args = ["check", "tests/data/check-two-3f.ron", "--json", "-"];
+    let one = arcfinger_env(&crate::util::root(), &args, &[("RAYON_NUM_THREADS", "1")]);
+    let two = arcfinger_env(&crate::util::root(), &args, &[("RAYON_NUM_THREADS", "2")]);
+    assert!(one.code == 0 || one.code == 1, "exit {}: {}", one.code, one.stderr);
+    assert_eq!(one.code, two.code);
+    assert!(one.stdout.contains("\"egg\"") && one.stdout.contains("\"ball\""));
+    assert_eq!(one.stdout, two.stdout);
 }

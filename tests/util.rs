@@ -81,12 +81,17 @@ pub fn arcfinger(args: &[&str]) -> Run {
 
 /// Runs `arcfinger` with `args` in folder `dir`.
 pub fn arcfinger_in(dir: &Path, args: &[&str]) -> Run {
-    let out = Command::new(env!("CARGO_BIN_EXE_arcfinger"))
-        .args(args)
-        .current_dir(dir)
-        .env("NO_COLOR", "1")
-        .output()
-        .expect("run arcfinger");
+    arcfinger_env(dir, args, &[])
+}
+
+/// Runs `arcfinger` with `args` in folder `dir` with extra environment variables.
+pub fn arcfinger_env(dir: &Path, args: &[&str], env: &[(&str, &str)]) -> Run {
+    let mut cmd = Command::new(env!("CARGO_BIN_EXE_arcfinger"));
+    cmd.args(args).current_dir(dir).env("NO_COLOR", "1");
+    for (k, v) in env {
+        cmd.env(k, v);
+    }
+    let out = cmd.output().expect("run arcfinger");
     Run {
         code: out.status.code().unwrap_or(-1),
         stdout: String::from_utf8_lossy(&out.stdout).into_owned(),

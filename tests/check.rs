@@ -171,3 +171,31 @@ fn json_is_identical_for_one_and_two_threads() {
     assert!(one.stdout.contains("\"egg\"") && one.stdout.contains("\"ball\""));
     assert_eq!(one.stdout, two.stdout);
 }
+
+/// Symmetric two-finger pinch of a centred ball through the whole pipeline: the lift
+/// margin equals the closed form from Coulomb friction and the reported normal forces.
+/// Each contact `i` can push with at most `N_i` along its normal `n_i` (into the ball)
+/// plus friction up to `mu N_i` in its tangent plane; the most it lifts is
+/// `N_i (n_iz + mu sqrt(1 - n_iz^2))` (normal part plus friction along the steepest
+/// tangent). With the two fingers mirror images through the ball's vertical axis, the
+/// horizontal parts and the torques cancel, so the largest balanced load scale is
+/// `s = sum_i N_i (n_iz + mu sqrt(1 - n_iz^2)) / (m (g + a))` (Coulomb's law and statics;
+/// cf. Murray, Li & Sastry 1994, ch. 5, for the contact model).
+#[test]
+fn two_finger_pinch_lift_margin_matches_the_coulomb_closed_form() {
+    let run = arcfinger(&["check", "tests/data/pinch-ball-2f.ron", "--json", "-"]);
+    assert!(run.code == 0 || run.code == 1, "exit {}: {}", run.code, run.stderr);
+    let doc: serde_json::Value = serde_json::from_str(&run.stdout).expect("JSON on stdout");
+    let ball = &doc["objects"][0];
+    assert_eq!(ball["fingers_in_contact"].as_u64(), Some(2), "{ball}");
+    let (mass, mu, g, a) = (0.1, 0.6, 9.806_65, 5.0); // the scene's ball and criteria
+    let mut lift = 0.0;
+    for c in ball["contacts"].as_array().unwrap() {
+        let nz = c["normal"][2].as_f64().unwrap();
+        let n = c["normal_force_n"].as_f64().unwrap();
+        lift += n * (nz + mu * (1.0 - nz * nz).max(0.0).sqrt());
+    }
+    let expected = lift / (mass * (g + a));
+    let got = ball["holding"]["lift"].as_f64().unwrap();
+    assert!((got / expected - 1.0).abs() < 1e-5, "lift margin {got} vs closed form {expected}");
+}

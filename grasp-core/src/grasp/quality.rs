@@ -129,15 +129,16 @@ pub struct EpsilonQuality<const D: usize> {
     pub facet_count: usize,
 }
 
+impl<const D: usize> EpsilonQuality<D> {
+    /// A result without force closure: epsilon 0, no weakest direction, no facets.
+    fn without_closure(status: QualityStatus, wrench_count: usize) -> Self {
+        Self { epsilon: 0.0, status, weakest_direction: None, wrench_count, facet_count: 0 }
+    }
+}
+
 fn quality_from_points<const D: usize>(points: &[[f64; D]]) -> EpsilonQuality<D> {
     let wrench_count = points.len();
-    let none = |status| EpsilonQuality {
-        epsilon: 0.0,
-        status,
-        weakest_direction: None,
-        wrench_count,
-        facet_count: 0,
-    };
+    let none = |status| EpsilonQuality::without_closure(status, wrench_count);
     match convex_hull(points) {
         Hull::Flat { .. } => none(QualityStatus::NoForceClosure),
         Hull::Failed => none(QualityStatus::HullFailed),
@@ -230,13 +231,7 @@ fn epsilon_with_edges(
         return Err(QualityError::TooManyWrenches { count, max: MAX_PRIMITIVE_WRENCHES });
     }
     if contacts.is_empty() {
-        return Ok(EpsilonQuality {
-            epsilon: 0.0,
-            status: QualityStatus::NoContacts,
-            weakest_direction: None,
-            wrench_count: 0,
-            facet_count: 0,
-        });
+        return Ok(EpsilonQuality::without_closure(QualityStatus::NoContacts, 0));
     }
     Ok(quality_from_points(&primitive_wrenches(contacts, com, torque_length, cone_edges, pyramid)))
 }
@@ -336,13 +331,7 @@ pub fn planar_epsilon(
         return Err(QualityError::TooManyContacts { count: contacts.len(), max: MAX_LINF_CONTACTS });
     }
     if contacts.is_empty() {
-        return Ok(EpsilonQuality {
-            epsilon: 0.0,
-            status: QualityStatus::NoContacts,
-            weakest_direction: None,
-            wrench_count: 0,
-            facet_count: 0,
-        });
+        return Ok(EpsilonQuality::without_closure(QualityStatus::NoContacts, 0));
     }
     let per_contact: Vec<Vec<[f64; 3]>> = contacts.iter().map(|c| c.wrenches(com, torque_length)).collect();
     let points = match norm {

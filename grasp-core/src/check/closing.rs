@@ -20,6 +20,7 @@
 //! against the object and the palm, and bodies of different fingers that intersect in the
 //! closed state are reported as interference (a failure of the grasp).
 
+use parry3d_f64::bounding_volume::BoundingVolume;
 use parry3d_f64::query;
 use parry3d_f64::shape::SharedShape;
 
@@ -36,6 +37,11 @@ pub const GRAVITY: f64 = 9.806_65;
 pub const PREDICTION: f64 = 6e-3;
 /// Largest penetration accepted in a converged closed state (m), DESIGN 3.3.
 pub const PENETRATION_TOLERANCE: f64 = 1e-5;
+/// Deepest penetration after a solve that re-linearisation may repair, as a fraction of
+/// the obstacle's smallest extent (its bounding box's): deeper, the nearest face may be
+/// the far one (a thin palm passed through), the linearisation does not hold, and the
+/// pressure step is retried smaller.
+const MAX_STEP_DEPTH: f64 = 0.25;
 /// Pressure steps of the ramp from zero to the supply pressure.
 const RAMP_STEPS: usize = 4;
 /// Re-linearisations allowed per pressure step.
@@ -65,6 +71,24 @@ pub struct Obstacles<'a> {
     pub object: &'a ObjectGeometry,
     /// The palm.
     pub palm: &'a (Pose, SharedShape),
+}
+
+impl Obstacles<'_> {
+    /// A test of a body piece's bounding sphere (centre, radius; m) against the
+    /// obstacles' boxes grown by `prediction` (m): false means no contact query on the piece
+    /// can report a contact.
+    fn near(&self, prediction: f64) -> impl Fn(Vec3, f64) -> bool + use<> {
+        let boxes = [
+            self.object.shape.compute_aabb(&self.object.pose).loosened(prediction),
+            self.palm.1.compute_aabb(&self.palm.0).loosened(prediction),
+        ];
+        move |centre: Vec3, radius: f64| {
+            boxes.iter().any(|b| {
+                let nearest = centre.clamp(b.mins, b.maxs);
+                (nearest - centre).length() <= radius
+            })
+        }
+    }
 }
 
 /// Point loads of the finger's own weight: the rubber of each chamber element (section
@@ -97,7 +121,7 @@ pub fn weight_loads(actuator: &Actuator, rod: &Rod, frame: &FingerFrame) -> Vec<
 /// One linearised contact: which piece, the gap, and how to turn its force into a
 /// world-frame contact.
 struct Linearised {
-    piece: usize,
+    piece: PieceKind,
     gap: PointGap,
     /// In-plane share of the unit world normal, `|n_p|`.
     in_plane: f64,
@@ -114,22 +138,30 @@ fn linearise(
     angles: &[f64],
     body: &FingerBody,
     obstacles: &Obstacles<'_>,
-) -> Result<(Vec<Linearised>, f64), String> {
+    prediction: f64,
+) -> Result<(Vec<Linearised>, f64, bool), String> {
     let mut out = Vec::new();
     let mut penetration = f64::NEG_INFINITY;
+    let mut too_deep = false;
     let targets: [(&Pose, &SharedShape, bool); 2] = [
         (&obstacles.object.pose, &obstacles.object.shape, true),
         (&obstacles.palm.0, &obstacles.palm.1, false),
     ];
+    let depth_limit = |pose: &Pose, shape: &SharedShape| {
+        let e = shape.compute_aabb(pose).extents();
+        MAX_STEP_DEPTH * e.x.min(e.y).min(e.z)
+    };
+    let limits = [depth_limit(targets[0].0, targets[0].1), depth_limit(targets[1].0, targets[1].1)];
     for (i, piece) in body.pieces.iter().enumerate() {
         if piece.kind == PieceKind::Base {
             continue; // clamped in the hub: it cannot move to open or close a gap
         }
-        for &(pose, shape, on_object) in &targets {
-            let c = query::contact(&piece.pose, piece.shape.as_ref(), pose, shape.as_ref(), PREDICTION)
+        for (&(pose, shape, on_object), &limit) in targets.iter().zip(&limits) {
+            let c = query::contact(&piece.pose, piece.shape.as_ref(), pose, shape.as_ref(), prediction)
                 .map_err(|_| "unsupported shape pair in the contact query".to_string())?;
             let Some(c) = c else { continue };
             penetration = penetration.max(-c.dist);
+            too_deep |= -c.dist > limit;
             let normal: Vec3 = c.normal1;
             let (np, _) = body.frame.plane_direction(normal);
             let in_plane = np.length();
@@ -137,6 +169,11 @@ fn linearise(
                 continue;
             }
             let (mp, _) = body.material_point(i, c.point1).map_err(|e| e.to_string())?;
+            if mp.s <= rod.base_length + 1e-9 * rod.length() {
+                // the section where the chamber leaves the hub is clamped: no angle moves
+                // it, so a gap there is a constant that the rod can neither open nor close
+                continue;
+            }
             // neighbouring pieces share their end sections: a contact on the shared edge
             // shows up twice, as the same gap
             if out.iter().any(|l: &Linearised| {
@@ -150,10 +187,10 @@ fn linearise(
             // g = d - n_p . (x - x0) >= 0, scaled by 1/|n_p|: unit normal -n_p/|n_p|
             let unit = -np / in_plane;
             let gap = PointGap { point: mp, normal: unit, offset: unit.dot(x0) - c.dist / in_plane };
-            out.push(Linearised { piece: i, gap, in_plane, point: c.point2, normal, on_object });
+            out.push(Linearised { piece: piece.kind, gap, in_plane, point: c.point2, normal, on_object });
         }
     }
-    Ok((out, penetration))
+    Ok((out, penetration, too_deep))
 }
 
 fn element_index(kind: PieceKind, elements: usize) -> usize {
@@ -172,8 +209,21 @@ struct StepResult {
     penetration: f64,
 }
 
-/// Closes the finger at pressure `p` from `angles` by repeated linearisation; `None` when
-/// it does not settle (the caller then takes a smaller pressure step).
+/// How one pressure step of the closing ended.
+enum Settle {
+    /// Closed within the tolerances.
+    Settled(StepResult),
+    /// The solve moved the body deep into an obstacle (it jumped, e.g. a finger
+    /// snapping past a limit point toward the palm): worth retrying with gaps against
+    /// more distant obstacles. With gaps against everything the finger can reach, a deep
+    /// state is left to re-linearisation to repair.
+    TooDeep,
+    /// Did not settle: take a smaller step.
+    Failed,
+}
+
+/// Closes the finger at pressure `p` from `angles` by repeated linearisation, with gaps
+/// for the body pieces within `prediction` (m) of an obstacle.
 #[expect(clippy::too_many_arguments, reason = "internal helper of close_finger")]
 fn settle(
     actuator: &Actuator,
@@ -182,44 +232,66 @@ fn settle(
     model: SectionModel,
     p: f64,
     loads: &[PointLoad],
-    obstacles: &Obstacles<'_>,
+    (obstacles, prediction): (&Obstacles<'_>, f64),
     angles: &[f64],
     report: &mut SolveReport,
-) -> Result<Option<StepResult>, String> {
+) -> Result<Settle, String> {
     let law = actuator.law(p, model);
     let mut angles = angles.to_vec();
-    let body = FingerBody::new(rod, &angles, &actuator.section, frame).map_err(|e| e.to_string())?;
-    let (mut lin, _) = linearise(rod, &angles, &body, obstacles)?;
-    let mut active: Option<Vec<bool>> = None;
-    let mut prev_pieces: Option<Vec<usize>> = None;
+    let near = obstacles.near(prediction);
+    let body =
+        FingerBody::new_where(rod, &angles, &actuator.section, frame, &near).map_err(|e| e.to_string())?;
+    let (mut lin, _, _) = linearise(rod, &angles, &body, obstacles, prediction)?;
+    // the active-set seed carried over from the previous linearisation
+    let mut seeds: Vec<Vec<bool>> = Vec::new();
+    let mut prev_pieces: Option<Vec<PieceKind>> = None;
     for _ in 0..MAX_RELINEARISATIONS {
         let gaps: Vec<PointGap> = lin.iter().map(|l| l.gap).collect();
-        let seed = active.as_ref().filter(|a| a.len() == gaps.len()).map(Vec::as_slice);
-        let sol =
-            solve_with_gaps(rod, &law, loads, &[], &gaps, Some(&angles), seed).map_err(|e| e.to_string())?;
+        let mut sol = None;
+        for seed in &seeds {
+            let s = solve_with_gaps(rod, &law, loads, &[], &gaps, Some(&angles), Some(seed))
+                .map_err(|e| e.to_string())?;
+            let converged = s.solution.report.converged();
+            sol = Some(s);
+            if converged {
+                break;
+            }
+        }
+        // no seed, or none worked (a carried-over set may hold gaps that cannot all
+        // close): start the active set afresh from the gaps closed now
+        let sol = match sol {
+            Some(s) if s.solution.report.converged() => s,
+            _ => solve_with_gaps(rod, &law, loads, &[], &gaps, Some(&angles), None)
+                .map_err(|e| e.to_string())?,
+        };
         report.iterations += sol.solution.report.iterations;
         report.residual = sol.solution.report.residual;
         report.constraint_residual = sol.solution.report.constraint_residual;
         if !sol.solution.report.converged() {
             report.status = sol.solution.report.status;
-            return Ok(None);
+            return Ok(Settle::Failed);
         }
         angles.clone_from(&sol.solution.angles);
-        let body = FingerBody::new(rod, &angles, &actuator.section, frame).map_err(|e| e.to_string())?;
-        let (next, pen) = linearise(rod, &angles, &body, obstacles)?;
+        let body = FingerBody::new_where(rod, &angles, &actuator.section, frame, &near)
+            .map_err(|e| e.to_string())?;
+        let (next, pen, too_deep) = linearise(rod, &angles, &body, obstacles, prediction)?;
         let penetration = pen.max(0.0);
-        let pieces: Vec<usize> =
+        if too_deep && prediction < rod.length() {
+            return Ok(Settle::TooDeep);
+        }
+        let pieces: Vec<PieceKind> =
             lin.iter().zip(&sol.active).filter(|(_, a)| **a).map(|(l, _)| l.piece).collect();
         let stable = prev_pieces.as_ref() == Some(&pieces) || pieces.is_empty();
         if penetration <= PENETRATION_TOLERANCE && stable {
-            return Ok(Some(StepResult { angles, lin, forces: sol.gap_forces, penetration }));
+            return Ok(Settle::Settled(StepResult { angles, lin, forces: sol.gap_forces, penetration }));
         }
         // carry the active set over to the new linearisation, piece by piece
-        active = Some(next.iter().map(|l| pieces.contains(&l.piece)).collect());
+        let in_contact: Vec<bool> = next.iter().map(|l| pieces.contains(&l.piece)).collect();
+        seeds = vec![in_contact];
         prev_pieces = Some(pieces);
         lin = next;
     }
-    Ok(None)
+    Ok(Settle::Failed)
 }
 
 /// Closes finger `finger` (mounted at `frame`) of `actuator` at `pressure` (Pa) on the
@@ -258,10 +330,32 @@ pub fn close_finger(
     };
     let mut last: Option<StepResult> = None;
     let mut halvings = 0;
+    let mut prediction = PREDICTION;
     loop {
         let target = if dp.abs() >= (pressure - p_done).abs() { pressure } else { p_done + dp };
-        match settle(actuator, rod, frame, model, target, &loads, obstacles, &angles, &mut report)? {
-            Some(step) => {
+        let outcome = settle(
+            actuator,
+            rod,
+            frame,
+            model,
+            target,
+            &loads,
+            (obstacles, prediction),
+            &angles,
+            &mut report,
+        )?;
+        if let Settle::TooDeep = outcome
+            && prediction < rod.length()
+        {
+            // the same step again, with gaps against obstacles farther away (at most as
+            // far as the finger reaches): a finger that snaps through a limit point
+            // moves farther in one step than the usual prediction distance
+            prediction = (4.0 * prediction).min(rod.length());
+            continue;
+        }
+        match outcome {
+            Settle::Settled(step) => {
+                prediction = PREDICTION;
                 angles.clone_from(&step.angles);
                 p_done = target;
                 report.load_steps += 1;
@@ -271,7 +365,7 @@ pub fn close_finger(
                 }
                 dp *= 1.5;
             }
-            None => {
+            Settle::TooDeep | Settle::Failed => {
                 halvings += 1;
                 dp *= 0.5;
                 if halvings > MAX_HALVINGS || dp.abs() < span / 4096.0 {
@@ -297,7 +391,7 @@ pub fn close_finger(
                 .filter(|(l, f)| l.on_object && **f > 0.0)
                 .map(|(l, f)| ContactReport {
                     finger,
-                    element: element_index(body.pieces[l.piece].kind, rod.elements),
+                    element: element_index(l.piece, rod.elements),
                     point: l.point,
                     normal: l.normal,
                     normal_force: f / l.in_plane,

@@ -91,6 +91,16 @@ fn interference(bodies: &[&FingerBody]) -> Vec<(usize, usize)> {
     pairs
 }
 
+/// How much of an evaluation to compute.
+#[derive(Clone, Copy, PartialEq, Eq)]
+enum Detail {
+    /// Every criterion and the epsilon quality: the report at the supply pressure.
+    Full,
+    /// Only the verdict, for a sweep point: the criteria in order of cost, stopping at
+    /// the first that fails; no epsilon (it is reported, not a criterion).
+    Verdict,
+}
+
 fn evaluate(
     rig: &Rig<'_>,
     object: &TargetObject,
@@ -98,6 +108,7 @@ fn evaluate(
     pressure: f64,
     settings: &CheckSettings,
     starts: Option<&[(f64, Vec<f64>)]>,
+    detail: Detail,
 ) -> Result<Evaluation, CheckError> {
     let criteria = &rig.scene.criteria;
     let obstacles = Obstacles { object: geometry, palm: &rig.palm };
@@ -129,28 +140,39 @@ fn evaluate(
     touching.sort_unstable();
     touching.dedup();
     let fingers_in_contact = touching.len();
+    let peak_contact_force = contacts.iter().map(|c| c.normal_force).fold(0.0, f64::max);
+    let mut report = ObjectReport {
+        name: object.name.clone(),
+        verdict: Verdict::Fail,
+        failures: Vec::new(),
+        fingers_in_contact,
+        contacts,
+        enclosure: 0.0,
+        epsilon: 0.0,
+        holding: HoldingMargins { lift: 0.0, lateral_min: 0.0 },
+        peak_contact_force,
+        pressure_window: None,
+    };
+    // the criteria in order of cost; a sweep point stops at the first failure
+    let done = |failures: &Vec<Failure>| detail == Detail::Verdict && !failures.is_empty();
     if fingers_in_contact < criteria.min_fingers_in_contact {
         failures
             .push(Failure::TooFewFingers { got: fingers_in_contact, need: criteria.min_fingers_in_contact });
     }
-    // enclosure by the closed fingers and the palm
-    let mut obstacles_list: Vec<(Pose, SharedShape)> =
-        closed.iter().flat_map(|c| c.body.obstacles()).collect();
-    obstacles_list.push(rig.palm.clone());
-    let enclosure = grasp::enclosure::enclosure(
-        geometry.shape.as_ref(),
-        &geometry.pose,
-        geometry.bounding_radius,
-        &obstacles_list,
-        settings.enclosure_directions,
-    )
-    .map_err(|e| CheckError::Geometry(e.to_string()))?
-    .fraction;
-    if enclosure < criteria.min_enclosure {
-        failures.push(Failure::Enclosure { got: enclosure, need: criteria.min_enclosure });
+    if let Some(limit) = object.max_contact_force
+        && peak_contact_force > limit
+    {
+        failures.push(Failure::ContactForce { peak: peak_contact_force, limit });
     }
-    // holding margins and quality from the contacts
-    let grasp_contacts: Vec<GraspContact> = contacts
+    if !done(&failures) {
+        let bodies: Vec<&FingerBody> = closed.iter().map(|c| &c.body).collect();
+        let pairs = interference(&bodies);
+        if !pairs.is_empty() {
+            failures.push(Failure::Interference { pairs });
+        }
+    }
+    let grasp_contacts: Vec<GraspContact> = report
+        .contacts
         .iter()
         .map(|c| GraspContact {
             point: c.point,
@@ -160,16 +182,62 @@ fn evaluate(
             finger: c.finger,
         })
         .collect();
+    if !done(&failures) {
+        holding(object, &grasp_contacts, criteria, &mut report.holding, &mut failures)?;
+    }
+    if !done(&failures) {
+        // enclosure by the closed fingers and the palm
+        let mut obstacles_list: Vec<(Pose, SharedShape)> =
+            closed.iter().flat_map(|c| c.body.obstacles()).collect();
+        obstacles_list.push(rig.palm.clone());
+        report.enclosure = grasp::enclosure::enclosure(
+            geometry.shape.as_ref(),
+            &geometry.pose,
+            geometry.bounding_radius,
+            &obstacles_list,
+            settings.enclosure_directions,
+        )
+        .map_err(|e| CheckError::Geometry(e.to_string()))?
+        .fraction;
+        if report.enclosure < criteria.min_enclosure {
+            failures.push(Failure::Enclosure { got: report.enclosure, need: criteria.min_enclosure });
+        }
+    }
+    if detail == Detail::Full && !grasp_contacts.is_empty() {
+        report.epsilon = grasp::epsilon_quality(
+            &grasp_contacts,
+            object.position,
+            geometry.bounding_radius,
+            grasp::DEFAULT_CONE_EDGES,
+        )
+        .map(|q| q.epsilon)
+        .unwrap_or(0.0);
+    }
+    report.verdict = if failures.is_empty() { Verdict::Pass } else { Verdict::Fail };
+    report.failures = failures;
+    Ok(Evaluation { report, closed })
+}
+
+/// The holding margins of the lift and lateral load cases (DESIGN 3.4) into `margins`,
+/// and a failure for the lift case and for the weakest lateral case if below the safety
+/// factor.
+fn holding(
+    object: &TargetObject,
+    contacts: &[GraspContact],
+    criteria: &crate::scene::Criteria,
+    margins_out: &mut HoldingMargins,
+    failures: &mut Vec<Failure>,
+) -> Result<(), CheckError> {
     let cases = grasp::load_cases(object.mass, criteria.lift_accel, criteria.lateral_accel)
         .map_err(|e| CheckError::Geometry(format!("object \"{}\": {e}", object.name)))?;
-    let margins =
-        grasp::holding_margins(&grasp_contacts, object.position, &cases, &HoldingSettings::default())
-            .map_err(|e| CheckError::Geometry(format!("object \"{}\": {e}", object.name)))?;
+    let margins = grasp::holding_margins(contacts, object.position, &cases, &HoldingSettings::default())
+        .map_err(|e| CheckError::Geometry(format!("object \"{}\": {e}", object.name)))?;
     if !margins.all_answered {
         failures.push(Failure::NotConverged { what: format!("holding program for \"{}\"", object.name) });
     }
     let lift = margins.lift.unwrap_or(0.0);
     let lateral_min = margins.lateral_min.unwrap_or(0.0);
+    *margins_out = HoldingMargins { lift, lateral_min };
     for m in &margins.cases {
         let is_lift = matches!(m.case.kind, grasp::LoadKind::Lift);
         let worst = if is_lift { lift } else { lateral_min };
@@ -185,45 +253,7 @@ fn evaluate(
             });
         }
     }
-    let epsilon = if grasp_contacts.is_empty() {
-        0.0
-    } else {
-        grasp::epsilon_quality(
-            &grasp_contacts,
-            object.position,
-            geometry.bounding_radius,
-            grasp::DEFAULT_CONE_EDGES,
-        )
-        .map(|q| q.epsilon)
-        .unwrap_or(0.0)
-    };
-    let peak_contact_force = contacts.iter().map(|c| c.normal_force).fold(0.0, f64::max);
-    if let Some(limit) = object.max_contact_force
-        && peak_contact_force > limit
-    {
-        failures.push(Failure::ContactForce { peak: peak_contact_force, limit });
-    }
-    let bodies: Vec<&FingerBody> = closed.iter().map(|c| &c.body).collect();
-    let pairs = interference(&bodies);
-    if !pairs.is_empty() {
-        failures.push(Failure::Interference { pairs });
-    }
-    let verdict = if failures.is_empty() { Verdict::Pass } else { Verdict::Fail };
-    Ok(Evaluation {
-        report: ObjectReport {
-            name: object.name.clone(),
-            verdict,
-            failures,
-            fingers_in_contact,
-            contacts,
-            enclosure,
-            epsilon,
-            holding: HoldingMargins { lift, lateral_min },
-            peak_contact_force,
-            pressure_window: None,
-        },
-        closed,
-    })
+    Ok(())
 }
 
 /// Widest run of consecutive `true`s: `(first, last)` indices.
@@ -311,11 +341,11 @@ pub fn check_scene(scene: &Scene, settings: &CheckSettings) -> Result<CheckRepor
         .par_iter()
         .zip(geometries.par_iter())
         .map(|(object, geometry)| {
-            let mut report = evaluate(&rig, object, geometry, pressure, settings, None)?.report;
+            let mut report = evaluate(&rig, object, geometry, pressure, settings, None, Detail::Full)?.report;
             let mut passes = Vec::with_capacity(sweep.len());
             let mut starts: Option<Vec<(f64, Vec<f64>)>> = None;
             for &p in &sweep {
-                let e = evaluate(&rig, object, geometry, p, settings, starts.as_deref())?;
+                let e = evaluate(&rig, object, geometry, p, settings, starts.as_deref(), Detail::Verdict)?;
                 passes.push(e.report.verdict == Verdict::Pass);
                 let converged = e.closed.iter().all(|c| c.report.status == SolveStatus::Converged);
                 starts = converged.then(|| e.closed.into_iter().map(|c| (p, c.angles)).collect());

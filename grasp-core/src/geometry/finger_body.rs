@@ -12,7 +12,7 @@
 //! - `Box`: the rectangle `|x| <= outer_width/2`, `-under_layer <= y <= top`;
 //! - `HalfRound`: the rectangle `|x| <= R_o`, `-under_layer <= y <= floor` under the
 //!   half disk of radius `R_o = radius + wall` centred at `(0, floor)`, the arc inscribed
-//!   with [`HALF_ROUND_ARC_SEGMENTS`] = 32 chords (at most `R_o (1 - cos(pi/64))`, 0.12 %
+//!   with [`HALF_ROUND_ARC_SEGMENTS`] = 16 chords (at most `R_o (1 - cos(pi/32))`, 0.48 %
 //!   of `R_o`, inside the true surface).
 //!
 //! On a bent element (tangent turning by `dpsi`, reference radius `1/|kappa|`), a chord
@@ -34,7 +34,7 @@ use parry3d_f64::shape::SharedShape;
 use std::f64::consts::{FRAC_PI_2, PI, TAU};
 
 /// Chords of the `HalfRound` outline's arc (the half circle of radius `R_o`).
-pub const HALF_ROUND_ARC_SEGMENTS: usize = 32;
+pub const HALF_ROUND_ARC_SEGMENTS: usize = 16;
 
 /// Which part of the finger a body piece stands for.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
@@ -124,6 +124,23 @@ impl FingerBody {
         section: &SectionProfile,
         frame: FingerFrame,
     ) -> Result<Self, GeometryError> {
+        Self::new_where(rod, angles, section, frame, |_, _| true)
+    }
+
+    /// Like [`Self::new`], but only with the pieces whose bounding sphere (centre in the
+    /// gripper frame and radius, m) `keep` accepts: building a piece's hull is the costly
+    /// part, and a contact search needs only the pieces near an obstacle. The pieces kept
+    /// are exactly those [`Self::new`] builds, in the same order; indices differ.
+    ///
+    /// # Errors
+    /// As [`Self::new`].
+    pub fn new_where(
+        rod: &Rod,
+        angles: &[f64],
+        section: &SectionProfile,
+        frame: FingerFrame,
+        keep: impl Fn(Vec3, f64) -> bool,
+    ) -> Result<Self, GeometryError> {
         if angles.len() != rod.elements {
             return Err(GeometryError::AngleCount { got: angles.len(), expected: rod.elements });
         }
@@ -131,11 +148,15 @@ impl FingerBody {
             finite("finger angle", a)?;
         }
         let outline = section_outline(section);
+        let outline_reach = outline.iter().map(|q| q.length()).fold(0.0, f64::max);
         let nodes = rod.nodes(angles);
         let h = rod.element_length();
         let mut pieces = Vec::with_capacity(rod.elements + 2);
         let mut push = |kind, s0: f64, s1: f64, p0: Vec2, p1: Vec2, a0: f64, a1: f64| {
             let centre = frame.to_world(0.5 * (p0 + p1));
+            if !keep(centre, 0.5 * (p1 - p0).length() + outline_reach) {
+                return Ok(());
+            }
             let mut pts = Vec::with_capacity(2 * outline.len());
             for (p, a) in [(p0, a0), (p1, a1)] {
                 let up = section_up(a);
@@ -333,8 +354,12 @@ mod tests {
         let rod = rod();
         for (sec, area) in [
             (box_section(), 18e-3 * 17e-3),
-            // rectangle 2 R_o (t_f + t_u) plus the inscribed half 32-gon (K/2) R_o² sin(pi/K)
-            (half_round(), 16e-3 * 3e-3 + 16.0 * 8e-3f64.powi(2) * (PI / 32.0).sin()),
+            // rectangle 2 R_o (t_f + t_u) plus the inscribed half of a regular K-gon,
+            // K = 2 HALF_ROUND_ARC_SEGMENTS: (K/4) R_o² sin(2 pi/K)
+            (half_round(), {
+                let k = 2.0 * HALF_ROUND_ARC_SEGMENTS as f64;
+                16e-3 * 3e-3 + 0.25 * k * 8e-3f64.powi(2) * (TAU / k).sin()
+            }),
         ] {
             let body =
                 FingerBody::new(&rod, &vec![0.0; 40], &sec, FingerFrame::new(0.0, r, 0.0).unwrap()).unwrap();

@@ -36,7 +36,7 @@ mod solve;
 mod unilateral;
 
 pub use blocked::{BlockedForce, BlockedOutcome, blocked_force_curve, blocked_tip_force};
-pub use solve::{RodSolution, SolveReport, SolveStatus, solve};
+pub use solve::{RodSolution, SolveReport, SolveStatus, solve, solve_within};
 pub use unilateral::{ContactSolution, GAP_TOLERANCE, PointGap, solve_with_gaps};
 
 use crate::math::Vec2;

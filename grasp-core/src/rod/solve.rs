@@ -411,6 +411,24 @@ pub fn solve(
     constraints: &[PointConstraint],
     initial: Option<&[f64]>,
 ) -> Result<RodSolution, RodError> {
+    solve_within(rod, law, loads, constraints, initial, MAX_TOTAL_ITERATIONS)
+}
+
+/// [`solve`] with at most `max_iterations` Newton iterations in all (capped at the
+/// default budget of [`solve`]): for callers that retry a failed solve another way (a
+/// smaller pressure step, another active set), so that a hopeless attempt costs little.
+///
+/// # Errors
+/// As [`solve`].
+pub fn solve_within(
+    rod: &Rod,
+    law: &dyn MomentLaw,
+    loads: &[PointLoad],
+    constraints: &[PointConstraint],
+    initial: Option<&[f64]>,
+    max_iterations: usize,
+) -> Result<RodSolution, RodError> {
+    let budget = max_iterations.min(MAX_TOTAL_ITERATIONS);
     let nd = rod.dofs();
     for l in loads {
         if !(l.force.is_finite() && l.point.y.is_finite()) {
@@ -452,7 +470,7 @@ pub fn solve(
     while t_done < 1.0 {
         let t = (t_done + dt).min(1.0);
         let mut trial = z.clone();
-        let (used, result) = problem.newton(&mut trial, t, MAX_TOTAL_ITERATIONS - iterations);
+        let (used, result) = problem.newton(&mut trial, t, budget - iterations);
         iterations += used;
         match result {
             Ok(()) => {
@@ -469,7 +487,7 @@ pub fn solve(
                 }
             }
         }
-        if iterations >= MAX_TOTAL_ITERATIONS {
+        if iterations >= budget {
             status = SolveStatus::IterationLimit;
             break;
         }

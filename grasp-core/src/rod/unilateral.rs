@@ -13,12 +13,17 @@
 //! of them is a reported status, never a pass.
 
 use super::{
-    MaterialPoint, MomentLaw, PointConstraint, PointLoad, Rod, RodError, RodSolution, SolveStatus, solve,
+    MaterialPoint, MomentLaw, PointConstraint, PointLoad, Rod, RodError, RodSolution, SolveStatus,
+    solve_within,
 };
 use crate::math::Vec2;
 
 /// Largest closure allowed on an inactive gap (m): 1 µm, well inside DESIGN 3.3's 0.01 mm.
 pub const GAP_TOLERANCE: f64 = 1e-6;
+/// Newton iterations allowed per active-set round: a round starts from the previous
+/// round's equilibrium and converges in a handful; one that needs more is holding an
+/// infeasible set of gaps and is better given up early.
+pub const ROUND_ITERATIONS: usize = 25;
 
 /// A unilateral constraint `n . x(point) - offset >= 0`.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -88,7 +93,7 @@ pub fn solve_with_gaps(
                 which.push(i);
             }
         }
-        let sol = solve(rod, law, loads, &all, Some(&angles))?;
+        let sol = solve_within(rod, law, loads, &all, Some(&angles), ROUND_ITERATIONS)?;
         if !sol.report.converged() {
             return Ok(finish(sol, gaps, &active, &which, constraints.len(), gap_values, round));
         }

@@ -11,3 +11,5 @@ mod bend;
 mod scene_errors;
 // `arcfinger fit`: material fits on Treloar's data, JSON contract, refusals of bad CSV.
 mod fit;
+// `arcfinger fab`: fabrication sheet, JSON contract, 1:1 SVG templates on the demo scenes.
+mod fab;

@@ -29,6 +29,8 @@ pub enum Command {
     Materials(MaterialsArgs),
     /// Fit a hyperelastic model to stress-stretch test data (CSV) and print a material block.
     Fit(FitArgs),
+    /// Fabrication sheet: molds, silicone, fiber and cut templates for each actuator.
+    Fab(FabArgs),
 }
 
 /// `arcfinger check`.
@@ -144,4 +146,20 @@ pub struct FitArgs {
     /// Density for the material block (g/cm3) [default: a placeholder, 1.07, marked as such].
     #[arg(long, value_name = "X")]
     pub density_g_cm3: Option<f64>,
+}
+
+/// `arcfinger fab`.
+#[derive(Debug, Args)]
+pub struct FabArgs {
+    /// Scene file (RON).
+    pub scene: PathBuf,
+    /// Only this actuator [default: every actuator of the scene].
+    #[arg(long, value_name = "NAME")]
+    pub actuator: Option<String>,
+    /// Write the sheet (Markdown), the JSON and the 1:1 SVG cut templates into DIR.
+    #[arg(long, value_name = "DIR")]
+    pub out: Option<PathBuf>,
+    /// Write the JSON document to FILE (`-` = stdout; the sheet is then not printed).
+    #[arg(long, value_name = "FILE")]
+    pub json: Option<String>,
 }

@@ -24,7 +24,7 @@ use serde::Serialize;
 use crate::cli::{BendArgs, SectionModelArg};
 use crate::error::{AppError, Outcome};
 use crate::output::{Sink, refuse_overwrite};
-use crate::suggest::nearest;
+use crate::suggest::actuator_named;
 
 /// Fewest rod elements along the chamber (DESIGN 3.3).
 pub const MIN_ELEMENTS: usize = 40;
@@ -84,15 +84,7 @@ impl Config {
         let origin = args.scene.display().to_string();
         let names: Vec<&str> = scene.actuators.iter().map(|a| a.name.as_str()).collect();
         let actuator = match &args.actuator {
-            Some(name) => scene.actuator(name).cloned().ok_or_else(|| {
-                AppError::input(format!(
-                    "--actuator: no actuator \"{name}\" in {origin}{} (defined: {})",
-                    nearest(name, names.iter().copied())
-                        .map(|s| format!("; did you mean \"{s}\"?"))
-                        .unwrap_or_default(),
-                    names.join(", ")
-                ))
-            })?,
+            Some(name) => actuator_named(&scene, name, &origin)?.clone(),
             None if scene.actuators.len() == 1 => scene.actuators[0].clone(),
             None => {
                 return Err(AppError::input(format!(

@@ -75,7 +75,7 @@ fn rating(scene: &Scene) -> Option<(f64, &str, usize)> {
 }
 
 /// The files a scene was read from: the scene file and its meshes.
-fn input_files(scene_file: &Path, scene: &Scene) -> Vec<PathBuf> {
+pub fn input_files(scene_file: &Path, scene: &Scene) -> Vec<PathBuf> {
     let dir = crate::scene_file::scene_dir(scene_file);
     let mut files = vec![scene_file.to_path_buf()];
     for o in &scene.objects {

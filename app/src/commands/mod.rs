@@ -3,5 +3,6 @@
 
 pub mod bend;
 pub mod check;
+pub mod fab;
 pub mod fit;
 pub mod materials;

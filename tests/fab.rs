@@ -60,3 +60,29 @@ fn fab_refuses_bad_actuator_and_overwriting_the_scene() {
     assert!(run.stderr.contains("refusing to overwrite"), "{}", run.stderr);
     assert_eq!(std::fs::read(&scene).unwrap(), before);
 }
+
+/// A loose wind (12 mm pitch on 3 mm walls) draws the wrap-pitch warning in `bend` and
+/// `fab`, and `bend`'s JSON carries the check; the tight demo wind does not warn.
+#[test]
+fn loose_wind_is_warned_about_in_bend_and_fab() {
+    let tmp = TempDir::new("fab-loose");
+    let text = std::fs::read_to_string(repo("tests/data/design-example.ron")).unwrap();
+    let loose = text.replace("pitch_mm: 4.0", "pitch_mm: 12.0");
+    assert_ne!(loose, text);
+    let scene = tmp.write("loose.ron", &loose);
+    let scene = scene.display().to_string();
+    let run = arcfinger(&["bend", &scene, "--pressures", "0:20:10", "--json", "-"]).expect_code(0);
+    assert!(
+        run.stderr.contains("warning: actuator \"f100\"") && run.stderr.contains("wind at a pitch"),
+        "{}",
+        run.stderr
+    );
+    let doc: serde_json::Value = serde_json::from_str(&run.stdout).unwrap();
+    assert_eq!(doc["wrap"]["ok"], false);
+    assert!(doc["wrap"]["max_safe_pitch_mm"].as_f64().unwrap() < 12.0);
+    let fab = arcfinger(&["fab", &scene]).expect_code(0);
+    assert!(fab.stderr.contains("wind at a pitch") && fab.stdout.contains("Wind tighter"), "{}", fab.stderr);
+    let tight = arcfinger(&["bend", "scenes/packing-line-3f.ron", "--pressures", "0:20:10"]).expect_code(0);
+    assert!(!tight.stderr.contains("warning"), "{}", tight.stderr);
+    assert!(tight.stdout.contains("wrap pitch: the wall between fiber turns starts to bulge near 183 kPa"));
+}

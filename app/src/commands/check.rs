@@ -44,6 +44,21 @@ pub fn demo_scene() -> Result<Scene, AppError> {
     crate::scene_file::load_embedded(DEMO_LABEL, DEMO_SCENE, DEMO_MESHES)
 }
 
+/// Wrap-pitch warnings for the actuators the fingers use, against the scene's safety
+/// factor (the same check as `arcfinger fab` and `bend`).
+pub fn wrap_warnings(scene: &Scene) -> Vec<String> {
+    scene
+        .actuators
+        .iter()
+        .enumerate()
+        .filter(|(i, _)| scene.gripper.fingers.iter().any(|f| f.actuator == *i))
+        .filter_map(|(_, a)| {
+            let w = grasp_core::fab::wrap::wrap_check(a, scene.criteria.safety_factor);
+            crate::commands::fab::wrap_warning(&a.name, &w)
+        })
+        .collect()
+}
+
 /// The one place `check` reaches the physics.
 fn run_check(scene: &Scene, settings: &CheckSettings) -> Result<CheckReport, AppError> {
     grasp_core::check::check_scene(scene, settings).map_err(AppError::from)
@@ -246,6 +261,9 @@ pub fn run(args: CheckArgs) -> Result<Outcome, AppError> {
         None => (demo_scene()?, Context::new(DEMO_LABEL), Vec::new()),
     };
     let cfg = Config::new(args, scene, context, &inputs)?;
+    for w in wrap_warnings(&cfg.scene) {
+        eprintln!("arcfinger: warning: {w}");
+    }
     let result = run_check(&cfg.scene, &cfg.settings)?;
     write_reports(&result, &cfg)?;
     outcome(&result)
@@ -301,6 +319,17 @@ mod tests {
         assert_eq!(msg, "demo: objects[0].mass_g: must be > 0, got -1");
         let garbage = crate::scene_file::load_embedded("demo", "Scene(", DEMO_MESHES).unwrap_err();
         assert!(garbage.to_string().starts_with("demo:1:"), "{garbage}");
+    }
+
+    /// A loose wind draws the wrap-pitch warning, the demo's tight one does not.
+    #[test]
+    fn loose_wind_is_warned_about() {
+        let mut scene = demo_scene().unwrap();
+        assert!(wrap_warnings(&scene).is_empty());
+        scene.actuators[0].fiber.pitch = 12e-3;
+        let w = wrap_warnings(&scene);
+        assert_eq!(w.len(), 1);
+        assert!(w[0].contains("box-100") && w[0].contains("wind at a pitch of at most 4.06 mm"), "{}", w[0]);
     }
 
     #[test]

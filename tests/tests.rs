@@ -13,3 +13,5 @@ mod scene_errors;
 mod fit;
 // `arcfinger fab`: fabrication sheet, JSON contract, 1:1 SVG templates on the demo scenes.
 mod fab;
+// `arcfinger calibrate`: fit to the demo bench data, calibrated scene next to the input.
+mod calibrate;

@@ -31,6 +31,8 @@ pub enum Command {
     Fit(FitArgs),
     /// Fabrication sheet: molds, silicone, fiber and cut templates for each actuator.
     Fab(FabArgs),
+    /// Fit the model to a measured prototype and write a calibrated copy of the scene.
+    Calibrate(CalibrateArgs),
 }
 
 /// `arcfinger check`.
@@ -160,6 +162,28 @@ pub struct FabArgs {
     #[arg(long, value_name = "DIR")]
     pub out: Option<PathBuf>,
     /// Write the JSON document to FILE (`-` = stdout; the sheet is then not printed).
+    #[arg(long, value_name = "FILE")]
+    pub json: Option<String>,
+}
+
+/// `arcfinger calibrate`.
+#[derive(Debug, Args)]
+pub struct CalibrateArgs {
+    /// Scene file (RON).
+    pub scene: PathBuf,
+    /// Measurements (CSV): `pressure_kpa`, `bend_deg`, optionally `blocked_force_n`.
+    #[arg(value_name = "MEASURED.csv")]
+    pub measured: PathBuf,
+    /// Actuator the prototype is of (may be left out when the scene has only one).
+    #[arg(long, value_name = "NAME")]
+    pub actuator: Option<String>,
+    /// Fit the floor thickness as well as the modulus scale.
+    #[arg(long)]
+    pub fit_floor: bool,
+    /// Write the calibrated scene to FILE [default: STEM-calibrated.ron next to the scene].
+    #[arg(long, value_name = "FILE.ron")]
+    pub out: Option<PathBuf>,
+    /// Write the JSON result to FILE (`-` = stdout; the summary then goes to stderr).
     #[arg(long, value_name = "FILE")]
     pub json: Option<String>,
 }

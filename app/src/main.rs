@@ -51,5 +51,6 @@ fn run(opts: cli::Opts) -> Result<Outcome, AppError> {
         cli::Command::Materials(args) => commands::materials::run(args),
         cli::Command::Fit(args) => commands::fit::run(args),
         cli::Command::Fab(args) => commands::fab::run(args),
+        cli::Command::Calibrate(args) => commands::calibrate::run(args),
     }
 }

@@ -55,6 +55,14 @@ pub struct CheckArgs {
     /// Rod elements along each chamber (>= 40).
     #[arg(long, value_name = "N", default_value_t = 40)]
     pub elements: usize,
+    /// Also run a robustness study: N Monte Carlo samples of the scene with the shop's
+    /// scatter of modulus, wall thicknesses, friction and object size, checked at the
+    /// supply pressure; per object the pass probability and the criterion that fails most.
+    #[arg(long, value_name = "N")]
+    pub robust: Option<usize>,
+    /// Seed of the robustness study's random streams.
+    #[arg(long, value_name = "S", default_value_t = 1, requires = "robust")]
+    pub seed: u64,
 }
 
 /// Which moment balance `bend` uses.

@@ -17,6 +17,7 @@
 
 use std::path::{Path, PathBuf};
 
+use grasp_core::check::robust::{MAX_SAMPLES, RobustSettings, Spreads, robust_check};
 use grasp_core::check::{CheckReport, CheckSettings};
 use grasp_core::scene::{ObjectShape, Scene};
 
@@ -70,6 +71,8 @@ struct Config {
     scene: Scene,
     context: Context,
     settings: CheckSettings,
+    /// Samples and seed of the robustness study, when asked for.
+    robust: Option<(usize, u64)>,
     json: Option<Sink>,
     junit: Option<Sink>,
     markdown: Option<Sink>,
@@ -142,6 +145,13 @@ impl Config {
                 args.elements
             )));
         }
+        if let Some(n) = args.robust
+            && !(1..=MAX_SAMPLES).contains(&n)
+        {
+            return Err(AppError::input(format!(
+                "--robust: must be between 1 and {MAX_SAMPLES} samples, got {n}"
+            )));
+        }
         let outputs: Vec<(&str, Sink)> =
             [("--json", &args.json), ("--junit", &args.junit), ("--markdown", &args.markdown)]
                 .into_iter()
@@ -188,6 +198,7 @@ impl Config {
                 pressure_override,
                 ..CheckSettings::default()
             },
+            robust: args.robust.map(|n| (n, args.seed)),
             json: sink("--json"),
             junit: sink("--junit"),
             markdown: sink("--markdown"),
@@ -260,11 +271,15 @@ pub fn run(args: CheckArgs) -> Result<Outcome, AppError> {
         }
         None => (demo_scene()?, Context::new(DEMO_LABEL), Vec::new()),
     };
-    let cfg = Config::new(args, scene, context, &inputs)?;
+    let mut cfg = Config::new(args, scene, context, &inputs)?;
     for w in wrap_warnings(&cfg.scene) {
         eprintln!("arcfinger: warning: {w}");
     }
     let result = run_check(&cfg.scene, &cfg.settings)?;
+    if let Some((samples, seed)) = cfg.robust {
+        let settings = RobustSettings { samples, seed, spreads: Spreads::default(), check: cfg.settings };
+        cfg.context.robust = Some(robust_check(&cfg.scene, &settings)?);
+    }
     write_reports(&result, &cfg)?;
     outcome(&result)
 }

@@ -305,4 +305,24 @@ mod tests {
             }
         }
     }
+
+    /// A profile gauge is drawn as its rectangle with a half-disk bite of the cavity's
+    /// radius from the middle of its top edge, at 1:1.
+    #[test]
+    fn profile_gauges_carry_their_half_disk() {
+        let gauge = Piece {
+            name: "gauge".into(),
+            count: 2,
+            outline: Outline::Notched {
+                width: 0.031,
+                height: 0.0155,
+                notch: Notch::HalfDisk { radius: 0.0095 },
+            },
+        };
+        let pages = template_pages("t", &[gauge]).unwrap();
+        let doc = roxmltree::Document::parse(&pages[0]).unwrap();
+        let path = doc.descendants().find(|n| n.has_tag_name("path")).unwrap();
+        let d = path.attribute("d").unwrap();
+        assert_eq!(d, "M 0 0 L 6.000 0 A 9.500 9.500 0 0 0 25.000 0 L 31.000 0 L 31.000 15.500 L 0 15.500 Z");
+    }
 }

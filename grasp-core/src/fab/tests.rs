@@ -117,12 +117,7 @@ fn helix_length_matches_a_polyline_of_the_helix() {
     let mut len = 0.0;
     let mut last = (0.0, 0.0, 0.0);
     for &t in &ts[1..] {
-        // the corner at the end of a turn maps back to the start of the outline
-        let (x, y) = if (t * per - (t * per / per).round() * per).abs() < 1e-15 {
-            (0.0, 0.0)
-        } else {
-            rect(t * per, w, h)
-        };
+        let (x, y) = rect(t * per, w, h);
         let z = t * pitch;
         len += ((x - last.0).powi(2) + (y - last.1).powi(2) + (z - last.2).powi(2)).sqrt();
         last = (x, y, z);

@@ -199,3 +199,37 @@ fn two_finger_pinch_lift_margin_matches_the_coulomb_closed_form() {
     let got = ball["holding"]["lift"].as_f64().unwrap();
     assert!((got / expected - 1.0).abs() < 1e-5, "lift margin {got} vs closed form {expected}");
 }
+
+/// `--robust N`: the study runs after the check, lands in the JSON (`robust`) and the
+/// table, and its numbers are consistent (passes out of samples, failure counts at most
+/// the samples). Its statistics and determinism are checked in the core.
+#[test]
+fn robust_study_lands_in_the_json_and_the_table() {
+    let scene = repo("tests/data/pinch-ball-2f.ron").display().to_string();
+    let run = arcfinger(&["check", &scene, "--robust", "2", "--seed", "3", "--json", "-"]);
+    assert!(run.code == 0 || run.code == 1, "{}", run.stderr);
+    let doc: serde_json::Value = serde_json::from_str(&run.stdout).unwrap();
+    let r = &doc["robust"];
+    assert_eq!((r["samples"].as_u64(), r["seed"].as_u64()), (Some(2), Some(3)));
+    let o = &r["objects"][0];
+    assert_eq!(o["name"], "ball");
+    let passes = o["passes"].as_u64().unwrap();
+    assert!(passes <= 2);
+    assert!((o["pass_probability"].as_f64().unwrap() - passes as f64 / 2.0).abs() < 1e-15);
+    // a passing sample fails nothing, so no criterion fails in more than the failing samples
+    let failures = o["failures"].as_array().unwrap();
+    for f in failures {
+        assert!(f["samples"].as_u64().unwrap() <= 2 - passes, "{f}");
+    }
+    assert_eq!(o["most_failing"].is_null(), failures.is_empty());
+    assert!(run.stderr.contains("robustness: 2 samples, seed 3"), "{}", run.stderr);
+}
+
+#[test]
+fn robust_sample_counts_are_checked_before_the_check() {
+    let scene = repo("tests/data/pinch-ball-2f.ron").display().to_string();
+    let run = arcfinger(&["check", &scene, "--robust", "0"]).expect_code(2);
+    assert!(run.stderr.contains("--robust: must be between 1 and"), "{}", run.stderr);
+    let run = arcfinger(&["check", &scene, "--seed", "3"]).expect_code(2);
+    assert!(run.stderr.contains("--robust"), "{}", run.stderr);
+}

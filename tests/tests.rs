@@ -11,3 +11,7 @@ mod bend;
 mod scene_errors;
 // `arcfinger fit`: material fits on Treloar's data, JSON contract, refusals of bad CSV.
 mod fit;
+// `arcfinger fab`: fabrication sheet, JSON contract, 1:1 SVG templates on the demo scenes.
+mod fab;
+// `arcfinger calibrate`: fit to the demo bench data, calibrated scene next to the input.
+mod calibrate;

@@ -29,6 +29,10 @@ pub enum Command {
     Materials(MaterialsArgs),
     /// Fit a hyperelastic model to stress-stretch test data (CSV) and print a material block.
     Fit(FitArgs),
+    /// Fabrication sheet: molds, silicone, fiber and cut templates for each actuator.
+    Fab(FabArgs),
+    /// Fit the model to a measured prototype and write a calibrated copy of the scene.
+    Calibrate(CalibrateArgs),
 }
 
 /// `arcfinger check`.
@@ -51,6 +55,14 @@ pub struct CheckArgs {
     /// Rod elements along each chamber (>= 40).
     #[arg(long, value_name = "N", default_value_t = 40)]
     pub elements: usize,
+    /// Also run a robustness study: N Monte Carlo samples of the scene with the shop's
+    /// scatter of modulus, wall thicknesses, friction and object size, checked at the
+    /// supply pressure; per object the pass probability and the criterion that fails most.
+    #[arg(long, value_name = "N")]
+    pub robust: Option<usize>,
+    /// Seed of the robustness study's random streams.
+    #[arg(long, value_name = "S", default_value_t = 1, requires = "robust")]
+    pub seed: u64,
 }
 
 /// Which moment balance `bend` uses.
@@ -144,4 +156,42 @@ pub struct FitArgs {
     /// Density for the material block (g/cm3) [default: a placeholder, 1.07, marked as such].
     #[arg(long, value_name = "X")]
     pub density_g_cm3: Option<f64>,
+}
+
+/// `arcfinger fab`.
+#[derive(Debug, Args)]
+pub struct FabArgs {
+    /// Scene file (RON).
+    pub scene: PathBuf,
+    /// Only this actuator [default: every actuator of the scene].
+    #[arg(long, value_name = "NAME")]
+    pub actuator: Option<String>,
+    /// Write the sheet (Markdown), the JSON and the 1:1 SVG cut templates into DIR.
+    #[arg(long, value_name = "DIR")]
+    pub out: Option<PathBuf>,
+    /// Write the JSON document to FILE (`-` = stdout; the sheet is then not printed).
+    #[arg(long, value_name = "FILE")]
+    pub json: Option<String>,
+}
+
+/// `arcfinger calibrate`.
+#[derive(Debug, Args)]
+pub struct CalibrateArgs {
+    /// Scene file (RON).
+    pub scene: PathBuf,
+    /// Measurements (CSV): `pressure_kpa`, `bend_deg`, optionally `blocked_force_n`.
+    #[arg(value_name = "MEASURED.csv")]
+    pub measured: PathBuf,
+    /// Actuator the prototype is of (may be left out when the scene has only one).
+    #[arg(long, value_name = "NAME")]
+    pub actuator: Option<String>,
+    /// Fit the floor thickness as well as the modulus scale.
+    #[arg(long)]
+    pub fit_floor: bool,
+    /// Write the calibrated scene to FILE [default: STEM-calibrated.ron next to the scene].
+    #[arg(long, value_name = "FILE.ron")]
+    pub out: Option<PathBuf>,
+    /// Write the JSON result to FILE (`-` = stdout; the summary then goes to stderr).
+    #[arg(long, value_name = "FILE")]
+    pub json: Option<String>,
 }

@@ -8,6 +8,7 @@
 mod cli;
 mod commands;
 mod error;
+mod fab_svg;
 mod ordered_map;
 mod output;
 mod plot;
@@ -49,5 +50,7 @@ fn run(opts: cli::Opts) -> Result<Outcome, AppError> {
         cli::Command::Bend(args) => commands::bend::run(args),
         cli::Command::Materials(args) => commands::materials::run(args),
         cli::Command::Fit(args) => commands::fit::run(args),
+        cli::Command::Fab(args) => commands::fab::run(args),
+        cli::Command::Calibrate(args) => commands::calibrate::run(args),
     }
 }

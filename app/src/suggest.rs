@@ -47,6 +47,27 @@ where
     best.map(|(_, c)| c)
 }
 
+/// The actuator called `name` in `scene` (read from `origin`).
+///
+/// # Errors
+/// [`AppError::Input`] naming the nearest defined actuator and listing them all.
+pub fn actuator_named<'a>(
+    scene: &'a grasp_core::scene::Scene,
+    name: &str,
+    origin: &str,
+) -> Result<&'a grasp_core::actuator::Actuator, crate::error::AppError> {
+    scene.actuator(name).ok_or_else(|| {
+        let names: Vec<&str> = scene.actuators.iter().map(|a| a.name.as_str()).collect();
+        crate::error::AppError::input(format!(
+            "--actuator: no actuator \"{name}\" in {origin}{} (defined: {})",
+            nearest(name, names.iter().copied())
+                .map(|s| format!("; did you mean \"{s}\"?"))
+                .unwrap_or_default(),
+            names.join(", ")
+        ))
+    })
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -19,10 +19,14 @@
 //! - [`geometry`]: the hub layout, object shapes and finger bodies as parry3d shapes.
 //! - [`grasp`]: grasp criteria at a pressure: enclosure, holding margins, epsilon quality.
 //! - [`check`]: the grasp check of a whole scene, with verdicts and pressure windows.
+//! - [`calibrate`]: fit a modulus scale (and floor thickness) to a measured prototype.
+//! - [`fab`]: the fabrication sheet of an actuator (molds, silicone, fiber) and its wrap-pitch check.
 #![deny(clippy::print_stdout, clippy::print_stderr)]
 
 pub mod actuator;
+pub mod calibrate;
 pub mod check;
+pub mod fab;
 pub mod geometry;
 pub mod grasp;
 pub mod kinematics;

@@ -21,10 +21,13 @@ use grasp_core::scene::Scene;
 use grasp_core::section::SectionModel;
 use serde::Serialize;
 
+use grasp_core::fab::wrap::wrap_check;
+
 use crate::cli::{BendArgs, SectionModelArg};
+use crate::commands::fab::{WrapDoc, wrap_warning};
 use crate::error::{AppError, Outcome};
 use crate::output::{Sink, refuse_overwrite};
-use crate::suggest::nearest;
+use crate::suggest::actuator_named;
 
 /// Fewest rod elements along the chamber (DESIGN 3.3).
 pub const MIN_ELEMENTS: usize = 40;
@@ -42,6 +45,8 @@ struct Config {
     elements: usize,
     json: Option<Sink>,
     plot: Option<std::path::PathBuf>,
+    /// The scene's safety factor, the margin the wrap-pitch check asks for.
+    safety_factor: f64,
 }
 
 /// Parses `A:B:STEP` (kPa) into the list of pressures, `B` included when on the grid.
@@ -84,15 +89,7 @@ impl Config {
         let origin = args.scene.display().to_string();
         let names: Vec<&str> = scene.actuators.iter().map(|a| a.name.as_str()).collect();
         let actuator = match &args.actuator {
-            Some(name) => scene.actuator(name).cloned().ok_or_else(|| {
-                AppError::input(format!(
-                    "--actuator: no actuator \"{name}\" in {origin}{} (defined: {})",
-                    nearest(name, names.iter().copied())
-                        .map(|s| format!("; did you mean \"{s}\"?"))
-                        .unwrap_or_default(),
-                    names.join(", ")
-                ))
-            })?,
+            Some(name) => actuator_named(&scene, name, &origin)?.clone(),
             None if scene.actuators.len() == 1 => scene.actuators[0].clone(),
             None => {
                 return Err(AppError::input(format!(
@@ -135,7 +132,15 @@ impl Config {
             Some(SectionModelArg::WallPressure) => SectionModel::WallPressure,
             None => actuator.section_model,
         };
-        Ok(Self { actuator, pressures_kpa, model, elements: args.elements, json, plot: args.plot })
+        Ok(Self {
+            actuator,
+            pressures_kpa,
+            model,
+            elements: args.elements,
+            json,
+            plot: args.plot,
+            safety_factor: scene.criteria.safety_factor,
+        })
     }
 }
 
@@ -184,6 +189,9 @@ pub struct BendDoc {
     pub rod_elements: usize,
     /// Where the held branch of the blocked-force test ends, if it does within the range.
     pub blocked_limit: Option<BlockedLimit>,
+    /// The wrap-pitch check against the scene's safety factor (see `arcfinger fab`).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub wrap: Option<WrapDoc>,
     /// One entry per pressure.
     pub points: Vec<BendPoint>,
 }
@@ -288,6 +296,7 @@ pub fn compute(
         max_pressure_kpa: actuator.max_pressure / 1e3,
         rod_elements: elements,
         blocked_limit: limit,
+        wrap: None,
         points,
     })
 }
@@ -330,6 +339,19 @@ pub fn table(doc: &BendDoc, actuator: &Actuator) -> String {
             p.note.as_ref().map(|n| format!(": {n}")).unwrap_or_default()
         );
     }
+    if let Some(w) = &doc.wrap {
+        let _ = match (w.bulge_pressure_kpa, w.margin) {
+            (Some(p), Some(m)) => writeln!(
+                s,
+                "\nwrap pitch: the wall between fiber turns starts to bulge near {p:.0} kPa, {m:.2} x rated \
+                 (required {:.2}; largest safe pitch {:.2} mm){}",
+                w.required_margin,
+                w.max_safe_pitch_mm,
+                if w.ok { "" } else { ": WIND TIGHTER" }
+            ),
+            _ => writeln!(s, "\nwrap pitch: the fiber turns touch, no free wall between them"),
+        };
+    }
     s.push_str(
         "\nbreak = wall strain as a share of the elongation at break. Free bending is weightless; the\n\
          blocked force holds the tip on the unbent axis. Estimates for design, not a rating: never\n\
@@ -342,7 +364,12 @@ pub fn table(doc: &BendDoc, actuator: &Actuator) -> String {
 pub fn run(args: BendArgs) -> Result<Outcome, AppError> {
     let scene = crate::scene_file::load(&args.scene)?;
     let cfg = Config::new(args, scene)?;
-    let doc = compute(&cfg.actuator, &cfg.pressures_kpa, cfg.model, cfg.elements)?;
+    let mut doc = compute(&cfg.actuator, &cfg.pressures_kpa, cfg.model, cfg.elements)?;
+    let wrap = wrap_check(&cfg.actuator, cfg.safety_factor);
+    if let Some(warning) = wrap_warning(&cfg.actuator.name, &wrap) {
+        eprintln!("arcfinger: warning: {warning}");
+    }
+    doc.wrap = Some(WrapDoc::of(&wrap));
     if let Some(plot) = &cfg.plot {
         let svg = crate::plot::bend_svg(&doc)
             .map_err(|e| AppError::input(format!("drawing {}: {e}", plot.display())))?;

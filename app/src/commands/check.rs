@@ -17,6 +17,7 @@
 
 use std::path::{Path, PathBuf};
 
+use grasp_core::check::robust::{MAX_SAMPLES, RobustSettings, Spreads, robust_check};
 use grasp_core::check::{CheckReport, CheckSettings};
 use grasp_core::scene::{ObjectShape, Scene};
 
@@ -44,6 +45,21 @@ pub fn demo_scene() -> Result<Scene, AppError> {
     crate::scene_file::load_embedded(DEMO_LABEL, DEMO_SCENE, DEMO_MESHES)
 }
 
+/// Wrap-pitch warnings for the actuators the fingers use, against the scene's safety
+/// factor (the same check as `arcfinger fab` and `bend`).
+pub fn wrap_warnings(scene: &Scene) -> Vec<String> {
+    scene
+        .actuators
+        .iter()
+        .enumerate()
+        .filter(|(i, _)| scene.gripper.fingers.iter().any(|f| f.actuator == *i))
+        .filter_map(|(_, a)| {
+            let w = grasp_core::fab::wrap::wrap_check(a, scene.criteria.safety_factor);
+            crate::commands::fab::wrap_warning(&a.name, &w)
+        })
+        .collect()
+}
+
 /// The one place `check` reaches the physics.
 fn run_check(scene: &Scene, settings: &CheckSettings) -> Result<CheckReport, AppError> {
     grasp_core::check::check_scene(scene, settings).map_err(AppError::from)
@@ -55,6 +71,8 @@ struct Config {
     scene: Scene,
     context: Context,
     settings: CheckSettings,
+    /// Samples and seed of the robustness study, when asked for.
+    robust: Option<(usize, u64)>,
     json: Option<Sink>,
     junit: Option<Sink>,
     markdown: Option<Sink>,
@@ -75,7 +93,7 @@ fn rating(scene: &Scene) -> Option<(f64, &str, usize)> {
 }
 
 /// The files a scene was read from: the scene file and its meshes.
-fn input_files(scene_file: &Path, scene: &Scene) -> Vec<PathBuf> {
+pub fn input_files(scene_file: &Path, scene: &Scene) -> Vec<PathBuf> {
     let dir = crate::scene_file::scene_dir(scene_file);
     let mut files = vec![scene_file.to_path_buf()];
     for o in &scene.objects {
@@ -127,6 +145,13 @@ impl Config {
                 args.elements
             )));
         }
+        if let Some(n) = args.robust
+            && !(1..=MAX_SAMPLES).contains(&n)
+        {
+            return Err(AppError::input(format!(
+                "--robust: must be between 1 and {MAX_SAMPLES} samples, got {n}"
+            )));
+        }
         let outputs: Vec<(&str, Sink)> =
             [("--json", &args.json), ("--junit", &args.junit), ("--markdown", &args.markdown)]
                 .into_iter()
@@ -173,6 +198,7 @@ impl Config {
                 pressure_override,
                 ..CheckSettings::default()
             },
+            robust: args.robust.map(|n| (n, args.seed)),
             json: sink("--json"),
             junit: sink("--junit"),
             markdown: sink("--markdown"),
@@ -245,8 +271,15 @@ pub fn run(args: CheckArgs) -> Result<Outcome, AppError> {
         }
         None => (demo_scene()?, Context::new(DEMO_LABEL), Vec::new()),
     };
-    let cfg = Config::new(args, scene, context, &inputs)?;
+    let mut cfg = Config::new(args, scene, context, &inputs)?;
+    for w in wrap_warnings(&cfg.scene) {
+        eprintln!("arcfinger: warning: {w}");
+    }
     let result = run_check(&cfg.scene, &cfg.settings)?;
+    if let Some((samples, seed)) = cfg.robust {
+        let settings = RobustSettings { samples, seed, spreads: Spreads::default(), check: cfg.settings };
+        cfg.context.robust = Some(robust_check(&cfg.scene, &settings)?);
+    }
     write_reports(&result, &cfg)?;
     outcome(&result)
 }
@@ -301,6 +334,17 @@ mod tests {
         assert_eq!(msg, "demo: objects[0].mass_g: must be > 0, got -1");
         let garbage = crate::scene_file::load_embedded("demo", "Scene(", DEMO_MESHES).unwrap_err();
         assert!(garbage.to_string().starts_with("demo:1:"), "{garbage}");
+    }
+
+    /// A loose wind draws the wrap-pitch warning, the demo's tight one does not.
+    #[test]
+    fn loose_wind_is_warned_about() {
+        let mut scene = demo_scene().unwrap();
+        assert!(wrap_warnings(&scene).is_empty());
+        scene.actuators[0].fiber.pitch = 12e-3;
+        let w = wrap_warnings(&scene);
+        assert_eq!(w.len(), 1);
+        assert!(w[0].contains("box-100") && w[0].contains("wind at a pitch of at most 4.06 mm"), "{}", w[0]);
     }
 
     #[test]

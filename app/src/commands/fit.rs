@@ -9,8 +9,10 @@
 //! Exit codes: 0 = fitted; 2 = bad data, arguments or output path; 3 = the Ogden search
 //! stopped at its iteration bound (the result is still written, marked unconverged).
 
-mod data;
+pub(crate) mod data;
 mod report;
+
+pub(crate) use report::model_doc;
 
 use std::path::PathBuf;
 

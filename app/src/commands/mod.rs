@@ -2,6 +2,8 @@
 //! and writes its reports.
 
 pub mod bend;
+pub mod calibrate;
 pub mod check;
+pub mod fab;
 pub mod fit;
 pub mod materials;

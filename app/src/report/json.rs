@@ -54,6 +54,9 @@ struct CheckDoc<'a> {
     converged: bool,
     /// Pairs of objects whose pressure windows do not overlap.
     clashes: Vec<[&'a str; 2]>,
+    /// The robustness study (`--robust N`), when run.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    robust: Option<super::robust::RobustDoc>,
 }
 
 #[derive(Debug, Serialize)]
@@ -179,6 +182,7 @@ fn document<'a>(r: &'a CheckReport, ctx: &'a Context) -> CheckDoc<'a> {
         scene_file: &ctx.scene_file,
         converged: !r.objects.iter().any(not_converged),
         clashes: r.clashes.iter().map(|(a, b)| [a.as_str(), b.as_str()]).collect(),
+        robust: ctx.robust.as_ref().map(super::robust::RobustDoc::of),
     }
 }
 

@@ -105,6 +105,9 @@ pub fn to_string(r: &CheckReport, ctx: &Context) -> String {
     s.push_str(&super::recommendation(r, |n| format!("**{}**", escape(n))));
     s.push('\n');
     s.push_str("\nMargins are load scales (pass at or above the scene's safety factor); the window is the widest range of swept supply pressures over which the object passes.\n");
+    if let Some(robust) = &ctx.robust {
+        s.push_str(&super::robust::markdown(robust, escape));
+    }
     let _ = writeln!(s, "\n_{CAUTIONS}_");
     s
 }

@@ -22,21 +22,25 @@
 pub mod json;
 pub mod junit;
 pub mod markdown;
+pub mod robust;
 pub mod table;
 
 use grasp_core::check::{CheckReport, Failure, ObjectReport, Verdict};
 
-/// Where the checked scene came from, shown in every report.
-#[derive(Debug, Clone, PartialEq, Eq)]
+/// Where the checked scene came from, shown in every report, and what was studied
+/// besides the check itself.
+#[derive(Debug, Clone, PartialEq)]
 pub struct Context {
     /// The scene file as named on the command line, or a label for the bundled demo.
     pub scene_file: String,
+    /// The robustness study of `--robust N`, when run.
+    pub robust: Option<grasp_core::check::robust::RobustReport>,
 }
 
 impl Context {
     /// A context for the scene file `scene_file`.
     pub fn new(scene_file: impl Into<String>) -> Self {
-        Self { scene_file: scene_file.into() }
+        Self { scene_file: scene_file.into(), robust: None }
     }
 }
 
@@ -98,14 +102,7 @@ pub fn overall_status(r: &CheckReport) -> Status {
 /// A short machine name for a failure's kind, used as the JSON `kind` and the JUnit
 /// failure `type`.
 pub fn failure_kind(f: &Failure) -> &'static str {
-    match f {
-        Failure::TooFewFingers { .. } => "too-few-fingers",
-        Failure::Enclosure { .. } => "enclosure",
-        Failure::Holding { .. } => "holding",
-        Failure::ContactForce { .. } => "contact-force",
-        Failure::Interference { .. } => "interference",
-        Failure::NotConverged { .. } => "not-converged",
-    }
+    f.kind()
 }
 
 /// `x` with `prec` decimals, or `n/a` when it is not finite.

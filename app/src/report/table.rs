@@ -111,6 +111,9 @@ pub fn to_string(r: &CheckReport, ctx: &Context, color: bool) -> String {
     }
     let _ = writeln!(s, "\n{}: {tally}", word(overall, 0, color));
     let _ = writeln!(s, "{}", sanitize(&super::recommendation(r, |n| format!("\"{n}\""))));
+    if let Some(robust) = &ctx.robust {
+        s.push_str(&super::robust::table(robust, sanitize));
+    }
     s.push_str(
         "margins are load scales, passing at the safety factor; estimates for design, not a certification:\n\
          never exceed the rated pressure, and use a regulator, a relief valve and eye protection.\n",

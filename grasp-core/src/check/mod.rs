@@ -11,6 +11,7 @@
 
 pub mod closing;
 mod evaluate;
+pub mod robust;
 
 pub use evaluate::{INTERFERENCE_TOLERANCE, check_scene};
 
@@ -78,6 +79,21 @@ pub enum Failure {
         /// What did not converge.
         what: String,
     },
+}
+
+impl Failure {
+    /// A short machine name of the criterion: `"too-few-fingers"`, `"enclosure"`,
+    /// `"holding"`, `"contact-force"`, `"interference"` or `"not-converged"`.
+    pub fn kind(&self) -> &'static str {
+        match self {
+            Self::TooFewFingers { .. } => "too-few-fingers",
+            Self::Enclosure { .. } => "enclosure",
+            Self::Holding { .. } => "holding",
+            Self::ContactForce { .. } => "contact-force",
+            Self::Interference { .. } => "interference",
+            Self::NotConverged { .. } => "not-converged",
+        }
+    }
 }
 
 impl std::fmt::Display for Failure {

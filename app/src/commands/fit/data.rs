@@ -84,18 +84,8 @@ pub fn read(path: &Path) -> Result<Vec<DataRow>, AppError> {
 /// # Errors
 /// [`AppError::Input`] naming `file:line`, the column and what was expected.
 pub fn parse(file: &str, bytes: &[u8]) -> Result<Vec<DataRow>, AppError> {
-    let text = std::str::from_utf8(bytes).map_err(|e| {
-        AppError::input(format!(
-            "{file}:{}: the text is not valid UTF-8; expected a plain-text CSV file",
-            line_at(bytes, e.valid_up_to())
-        ))
-    })?;
-    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
-    let mut lines = text
-        .lines()
-        .enumerate()
-        .map(|(i, l)| (i as u64 + 1, l))
-        .filter(|(_, l)| !(l.trim().is_empty() || l.trim_start().starts_with('#')));
+    let lines = data_lines(file, bytes)?;
+    let mut lines = lines.into_iter();
     let Some((header_line, header_text)) = lines.next() else {
         return Err(AppError::input(format!(
             "{file}: the file is empty; expected a header row naming the columns {}",
@@ -144,6 +134,27 @@ pub fn parse(file: &str, bytes: &[u8]) -> Result<Vec<DataRow>, AppError> {
     Ok(rows)
 }
 
+/// The numbered lines of a CSV text that carry records: UTF-8 checked, a leading
+/// byte-order mark dropped, blank lines and `#` comment lines skipped.
+///
+/// # Errors
+/// [`AppError::Input`] naming `file:line` when the text is not UTF-8.
+pub(crate) fn data_lines<'a>(file: &str, bytes: &'a [u8]) -> Result<Vec<(u64, &'a str)>, AppError> {
+    let text = std::str::from_utf8(bytes).map_err(|e| {
+        AppError::input(format!(
+            "{file}:{}: the text is not valid UTF-8; expected a plain-text CSV file",
+            line_at(bytes, e.valid_up_to())
+        ))
+    })?;
+    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
+    Ok(text
+        .lines()
+        .enumerate()
+        .map(|(i, l)| (i as u64 + 1, l))
+        .filter(|(_, l)| !(l.trim().is_empty() || l.trim_start().starts_with('#')))
+        .collect())
+}
+
 fn expected_columns() -> String {
     "`stretch` and `nominal_stress_kpa` (or `nominal_stress_mpa`), optionally `mode`".to_string()
 }
@@ -154,7 +165,7 @@ fn line_at(bytes: &[u8], offset: usize) -> u64 {
 }
 
 /// The trimmed fields of one line (CSV quoting rules).
-fn record(file: &str, line: u64, text: &str) -> Result<Vec<String>, AppError> {
+pub(crate) fn record(file: &str, line: u64, text: &str) -> Result<Vec<String>, AppError> {
     let mut reader =
         csv::ReaderBuilder::new().has_headers(false).trim(csv::Trim::All).from_reader(text.as_bytes());
     match reader.records().next() {
@@ -216,7 +227,7 @@ fn layout(file: &str, line: u64, header: &[String]) -> Result<Layout, AppError> 
     Ok(Layout { width: header.len(), stretch, stress, unit, mode })
 }
 
-fn number(file: &str, line: u64, column: &str, text: &str) -> Result<f64, AppError> {
+pub(crate) fn number(file: &str, line: u64, column: &str, text: &str) -> Result<f64, AppError> {
     match text.parse::<f64>() {
         Ok(v) if v.is_finite() => Ok(v),
         Ok(_) => Err(AppError::input(format!(

@@ -11,3 +11,7 @@ mod bend;
 mod scene_errors;
 // `arcfinger fit`: material fits on Treloar's data, JSON contract, refusals of bad CSV.
 mod fit;
+// The bad-input suite: a table of hostile and broken inputs, each exit 2 with the place.
+mod bad_inputs;
+// Time limit, interrupted runs, hostile names in reports, meshes outside the folder.
+mod hardening;

@@ -51,6 +51,12 @@ pub struct CheckArgs {
     /// Rod elements along each chamber (>= 40).
     #[arg(long, value_name = "N", default_value_t = 40)]
     pub elements: usize,
+    /// Stop the check after this many seconds: its result is then unknown (exit 3).
+    #[arg(long, value_name = "SECONDS", allow_negative_numbers = true, default_value_t = crate::budget::DEFAULT_TIME_LIMIT_S)]
+    pub time_limit: f64,
+    /// Let the scene read mesh files outside its own folder (absolute paths, `..`).
+    #[arg(long)]
+    pub allow_outside_meshes: bool,
 }
 
 /// Which moment balance `bend` uses.
@@ -85,6 +91,9 @@ pub struct BendArgs {
     /// Rod elements along the chamber for the blocked-force solve (>= 40).
     #[arg(long, value_name = "N", default_value_t = 48)]
     pub elements: usize,
+    /// Let the scene read mesh files outside its own folder (absolute paths, `..`).
+    #[arg(long)]
+    pub allow_outside_meshes: bool,
 }
 
 /// `arcfinger materials`.

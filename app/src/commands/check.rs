@@ -16,10 +16,12 @@
 //! 2 for bad input or usage.
 
 use std::path::{Path, PathBuf};
+use std::time::{Duration, Instant};
 
 use grasp_core::check::{CheckReport, CheckSettings};
 use grasp_core::scene::{ObjectShape, Scene};
 
+use crate::budget;
 use crate::cli::CheckArgs;
 use crate::commands::bend::{MAX_ELEMENTS, MIN_ELEMENTS};
 use crate::error::{AppError, Outcome};
@@ -49,12 +51,30 @@ fn run_check(scene: &Scene, settings: &CheckSettings) -> Result<CheckReport, App
     grasp_core::check::check_scene(scene, settings).map_err(AppError::from)
 }
 
+/// [`run_check`] within the configured time limit: the solver gets the deadline, and a
+/// check still running after it (plus [`budget::grace`]) is abandoned as unknown (exit 3)
+/// before any report is written.
+fn run_check_within(cfg: &Config) -> Result<CheckReport, AppError> {
+    let limit = cfg.time_limit;
+    let scene = cfg.scene.clone();
+    let settings = CheckSettings { deadline: Instant::now().checked_add(limit), ..cfg.settings };
+    match budget::run_within(limit + budget::grace(limit), move || run_check(&scene, &settings))? {
+        Some(result) => result,
+        None => Err(AppError::NotConverged(format!(
+            "the check did not finish within its time limit of {} s (--time-limit); its result is unknown, \
+             and no report was written (earlier report files are left as they were)",
+            limit.as_secs_f64()
+        ))),
+    }
+}
+
 /// The validated configuration of one run.
 #[derive(Debug)]
 struct Config {
     scene: Scene,
     context: Context,
     settings: CheckSettings,
+    time_limit: Duration,
     json: Option<Sink>,
     junit: Option<Sink>,
     markdown: Option<Sink>,
@@ -127,6 +147,7 @@ impl Config {
                 args.elements
             )));
         }
+        let time_limit = budget::time_limit("--time-limit", args.time_limit)?;
         let outputs: Vec<(&str, Sink)> =
             [("--json", &args.json), ("--junit", &args.junit), ("--markdown", &args.markdown)]
                 .into_iter()
@@ -173,6 +194,7 @@ impl Config {
                 pressure_override,
                 ..CheckSettings::default()
             },
+            time_limit,
             json: sink("--json"),
             junit: sink("--junit"),
             markdown: sink("--markdown"),
@@ -239,14 +261,15 @@ fn write_reports(r: &CheckReport, cfg: &Config) -> Result<(), AppError> {
 pub fn run(args: CheckArgs) -> Result<Outcome, AppError> {
     let (scene, context, inputs) = match &args.scene {
         Some(path) => {
-            let scene = crate::scene_file::load(path)?;
+            let meshes = crate::scene_file::MeshAccess::from_flag(args.allow_outside_meshes);
+            let scene = crate::scene_file::load_with(path, meshes)?;
             let inputs = input_files(path, &scene);
             (scene, Context::new(path.display().to_string()), inputs)
         }
         None => (demo_scene()?, Context::new(DEMO_LABEL), Vec::new()),
     };
     let cfg = Config::new(args, scene, context, &inputs)?;
-    let result = run_check(&cfg.scene, &cfg.settings)?;
+    let result = run_check_within(&cfg)?;
     write_reports(&result, &cfg)?;
     outcome(&result)
 }

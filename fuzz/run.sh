@@ -27,12 +27,13 @@ if [ -d ../tests/data/fuzz-regressions ]; then
 fi
 
 for t in $targets; do
+    dict=""
     case "$t" in
-        scene) len=16384 ;;
+        scene) len=16384; dict="-dict=scene.dict" ;;
         mesh) len=65536 ;;
         *) len=256 ;;
     esac
     echo "== fuzzing $t for $secs s"
     RUSTC_BOOTSTRAP=1 cargo fuzz run "$t" "corpus/$t" -- \
-        -max_total_time="$secs" -max_len="$len" -timeout=60 -rss_limit_mb=4096 -print_final_stats=1
+        -max_total_time="$secs" -max_len="$len" -timeout=60 -rss_limit_mb=4096 -print_final_stats=1 $dict
 done

@@ -296,6 +296,15 @@ fn cases() -> Vec<Case> {
             Field("objects[0].name"),
             "must not contain control or text-direction characters, found \\u{1b} at character 5",
         ),
+        edit(
+            "a reference with escape codes, shown not sent",
+            &[(
+                "(actuator: \"f100\", azimuth_deg: 120.0",
+                "(actuator: \"\u{1b}[31mf100\", azimuth_deg: 120.0",
+            )],
+            Field("gripper.fingers[1].actuator"),
+            "unknown actuator \"\\u{1b}[31mf100\"",
+        ),
         Case {
             what: "too many fingers",
             scene: Scene::Edit(fingers_edit),

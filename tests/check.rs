@@ -160,16 +160,25 @@ fn symmetric_gripper_on_a_centred_ball_gives_symmetric_contacts() {
 }
 
 /// The check's JSON is byte-identical whatever the number of threads that evaluate the
-/// objects (rayon, objects in parallel, results collected in scene order).
+/// objects (rayon, objects in parallel, results collected in scene order) and from one
+/// run to the next: 1, 2 and 8 threads, two runs each.
 #[test]
-fn json_is_identical_for_one_and_two_threads() {
+fn json_is_identical_for_1_2_and_8_threads_and_across_runs() {
     let args = ["check", "tests/data/check-two-3f.ron", "--json", "-"];
-    let one = arcfinger_env(&crate::util::root(), &args, &[("RAYON_NUM_THREADS", "1")]);
-    let two = arcfinger_env(&crate::util::root(), &args, &[("RAYON_NUM_THREADS", "2")]);
-    assert!(one.code == 0 || one.code == 1, "exit {}: {}", one.code, one.stderr);
-    assert_eq!(one.code, two.code);
-    assert!(one.stdout.contains("\"egg\"") && one.stdout.contains("\"ball\""));
-    assert_eq!(one.stdout, two.stdout);
+    let mut runs = Vec::new();
+    for threads in ["1", "2", "8"] {
+        for _ in 0..2 {
+            let run = arcfinger_env(&crate::util::root(), &args, &[("RAYON_NUM_THREADS", threads)]);
+            assert!(run.code == 0 || run.code == 1, "exit {}: {}", run.code, run.stderr);
+            runs.push((threads, run));
+        }
+    }
+    let (_, first) = &runs[0];
+    assert!(first.stdout.contains("\"egg\"") && first.stdout.contains("\"ball\""));
+    for (threads, run) in &runs[1..] {
+        assert_eq!(run.code, first.code, "{threads} threads");
+        assert!(run.stdout == first.stdout, "{threads} threads: the JSON differs from the first run");
+    }
 }
 
 /// Symmetric two-finger pinch of a centred ball through the whole pipeline: the lift

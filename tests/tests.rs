@@ -15,3 +15,7 @@ mod fit;
 mod fab;
 // `arcfinger calibrate`: fit to the demo bench data, calibrated scene next to the input.
 mod calibrate;
+// The bad-input suite: a table of hostile and broken inputs, each exit 2 with the place.
+mod bad_inputs;
+// Time limit, interrupted runs, hostile names in reports, meshes outside the folder.
+mod hardening;

@@ -63,6 +63,12 @@ pub struct CheckArgs {
     /// Seed of the robustness study's random streams.
     #[arg(long, value_name = "S", default_value_t = 1, requires = "robust")]
     pub seed: u64,
+    /// Stop the check after this many seconds: its result is then unknown (exit 3).
+    #[arg(long, value_name = "SECONDS", allow_negative_numbers = true, default_value_t = crate::budget::DEFAULT_TIME_LIMIT_S)]
+    pub time_limit: f64,
+    /// Let the scene read mesh files outside its own folder (absolute paths, `..`).
+    #[arg(long)]
+    pub allow_outside_meshes: bool,
 }
 
 /// Which moment balance `bend` uses.
@@ -97,6 +103,9 @@ pub struct BendArgs {
     /// Rod elements along the chamber for the blocked-force solve (>= 40).
     #[arg(long, value_name = "N", default_value_t = 48)]
     pub elements: usize,
+    /// Let the scene read mesh files outside its own folder (absolute paths, `..`).
+    #[arg(long)]
+    pub allow_outside_meshes: bool,
 }
 
 /// `arcfinger materials`.

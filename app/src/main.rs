@@ -5,9 +5,11 @@
 //! 0 = all checks pass, 1 = a check failed, 2 = bad input or usage, 3 = a solver did not
 //! converge. Every error goes to stderr prefixed with the program name.
 
+mod budget;
 mod cli;
 mod commands;
 mod error;
+mod escape;
 mod fab_svg;
 mod ordered_map;
 mod output;

@@ -55,7 +55,15 @@ pub fn write_atomic(path: &Path, bytes: &[u8]) -> Result<(), AppError> {
         path.file_name().ok_or_else(|| AppError::input(format!("{}: not a file name", path.display())))?;
     let tmp = dir.join(format!(".{}.tmp-{}", name.to_string_lossy(), std::process::id()));
     let result = (|| {
-        let mut f = std::fs::File::create(&tmp)?;
+        // a new file only: a link planted at the temporary name is removed, never followed
+        let create = || std::fs::OpenOptions::new().write(true).create_new(true).open(&tmp);
+        let mut f = match create() {
+            Err(e) if e.kind() == std::io::ErrorKind::AlreadyExists => {
+                std::fs::remove_file(&tmp)?;
+                create()?
+            }
+            other => other?,
+        };
         f.write_all(bytes)?;
         f.sync_all()?;
         std::fs::rename(&tmp, path)
@@ -101,6 +109,24 @@ mod tests {
         assert_eq!(names.len(), 1);
         assert!(refuse_overwrite(&p, &[&p]).is_err());
         assert!(refuse_overwrite(&dir.join("b.json"), &[&p]).is_ok());
+        std::fs::remove_dir_all(&dir).unwrap();
+    }
+
+    /// A symbolic link waiting at the temporary name is not followed: the file it points
+    /// to stays as it was, and the output is written.
+    #[cfg(unix)]
+    #[test]
+    fn a_link_at_the_temporary_name_is_not_followed() {
+        let dir = std::env::temp_dir().join(format!("arcfinger-out-link-{}", std::process::id()));
+        std::fs::create_dir_all(&dir).unwrap();
+        let victim = dir.join("victim.txt");
+        std::fs::write(&victim, b"keep").unwrap();
+        let tmp = dir.join(format!(".a.json.tmp-{}", std::process::id()));
+        std::os::unix::fs::symlink(&victim, &tmp).unwrap();
+        write_atomic(&dir.join("a.json"), b"new").unwrap();
+        assert_eq!(std::fs::read(&victim).unwrap(), b"keep");
+        assert_eq!(std::fs::read(dir.join("a.json")).unwrap(), b"new");
+        assert!(!tmp.exists() && tmp.symlink_metadata().is_err(), "the temporary name is gone");
         std::fs::remove_dir_all(&dir).unwrap();
     }
 

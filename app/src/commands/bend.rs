@@ -362,7 +362,8 @@ pub fn table(doc: &BendDoc, actuator: &Actuator) -> String {
 
 /// Runs `bend`.
 pub fn run(args: BendArgs) -> Result<Outcome, AppError> {
-    let scene = crate::scene_file::load(&args.scene)?;
+    let meshes = crate::scene_file::MeshAccess::from_flag(args.allow_outside_meshes);
+    let scene = crate::scene_file::load_with(&args.scene, meshes)?;
     let cfg = Config::new(args, scene)?;
     let mut doc = compute(&cfg.actuator, &cfg.pressures_kpa, cfg.model, cfg.elements)?;
     let wrap = wrap_check(&cfg.actuator, cfg.safety_factor);

@@ -16,11 +16,13 @@
 //! 2 for bad input or usage.
 
 use std::path::{Path, PathBuf};
+use std::time::{Duration, Instant};
 
 use grasp_core::check::robust::{MAX_SAMPLES, RobustSettings, Spreads, robust_check};
 use grasp_core::check::{CheckReport, CheckSettings};
 use grasp_core::scene::{ObjectShape, Scene};
 
+use crate::budget;
 use crate::cli::CheckArgs;
 use crate::commands::bend::{MAX_ELEMENTS, MIN_ELEMENTS};
 use crate::error::{AppError, Outcome};
@@ -65,6 +67,23 @@ fn run_check(scene: &Scene, settings: &CheckSettings) -> Result<CheckReport, App
     grasp_core::check::check_scene(scene, settings).map_err(AppError::from)
 }
 
+/// [`run_check`] within the configured time limit: the solver gets the deadline, and a
+/// check still running after it (plus [`budget::grace`]) is abandoned as unknown (exit 3)
+/// before any report is written.
+fn run_check_within(cfg: &Config) -> Result<CheckReport, AppError> {
+    let limit = cfg.time_limit;
+    let scene = cfg.scene.clone();
+    let settings = CheckSettings { deadline: Instant::now().checked_add(limit), ..cfg.settings };
+    match budget::run_within(limit + budget::grace(limit), move || run_check(&scene, &settings))? {
+        Some(result) => result,
+        None => Err(AppError::NotConverged(format!(
+            "the check did not finish within its time limit of {} s (--time-limit); its result is unknown, \
+             and no report was written (earlier report files are left as they were)",
+            limit.as_secs_f64()
+        ))),
+    }
+}
+
 /// The validated configuration of one run.
 #[derive(Debug)]
 struct Config {
@@ -73,6 +92,7 @@ struct Config {
     settings: CheckSettings,
     /// Samples and seed of the robustness study, when asked for.
     robust: Option<(usize, u64)>,
+    time_limit: Duration,
     json: Option<Sink>,
     junit: Option<Sink>,
     markdown: Option<Sink>,
@@ -152,6 +172,7 @@ impl Config {
                 "--robust: must be between 1 and {MAX_SAMPLES} samples, got {n}"
             )));
         }
+        let time_limit = budget::time_limit("--time-limit", args.time_limit)?;
         let outputs: Vec<(&str, Sink)> =
             [("--json", &args.json), ("--junit", &args.junit), ("--markdown", &args.markdown)]
                 .into_iter()
@@ -199,6 +220,7 @@ impl Config {
                 ..CheckSettings::default()
             },
             robust: args.robust.map(|n| (n, args.seed)),
+            time_limit,
             json: sink("--json"),
             junit: sink("--junit"),
             markdown: sink("--markdown"),
@@ -265,7 +287,8 @@ fn write_reports(r: &CheckReport, cfg: &Config) -> Result<(), AppError> {
 pub fn run(args: CheckArgs) -> Result<Outcome, AppError> {
     let (scene, context, inputs) = match &args.scene {
         Some(path) => {
-            let scene = crate::scene_file::load(path)?;
+            let meshes = crate::scene_file::MeshAccess::from_flag(args.allow_outside_meshes);
+            let scene = crate::scene_file::load_with(path, meshes)?;
             let inputs = input_files(path, &scene);
             (scene, Context::new(path.display().to_string()), inputs)
         }
@@ -275,7 +298,7 @@ pub fn run(args: CheckArgs) -> Result<Outcome, AppError> {
     for w in wrap_warnings(&cfg.scene) {
         eprintln!("arcfinger: warning: {w}");
     }
-    let result = run_check(&cfg.scene, &cfg.settings)?;
+    let result = run_check_within(&cfg)?;
     if let Some((samples, seed)) = cfg.robust {
         let settings = RobustSettings { samples, seed, spreads: Spreads::default(), check: cfg.settings };
         cfg.context.robust = Some(robust_check(&cfg.scene, &settings)?);

@@ -38,6 +38,10 @@ pub const MAX_EXTENT_M: f64 = 10.0;
 pub enum MeshSource<'a> {
     /// Files relative to the scene file's folder (and confined to it).
     Folder(&'a Path),
+    /// Files relative to the scene file's folder, or absolute, or reached through `..`
+    /// or a symbolic link: only when the user asked for it on the command line
+    /// (`--allow-outside-meshes`). The other checks (regular file, size, contents) stay.
+    Anywhere(&'a Path),
     /// An in-memory table of `(path as written in the scene, bytes)`, for a scene built
     /// into the binary. Paths are compared after dropping `.` components.
     Embedded(&'a [(&'a str, &'a [u8])]),
@@ -66,7 +70,8 @@ pub fn load_mesh(scene_dir: &Path, rel: &str, scale: f64) -> Result<TriangleMesh
 pub fn load_mesh_from(source: MeshSource<'_>, rel: &str, scale: f64) -> Result<TriangleMesh, String> {
     let at = |msg: String| format!("\"{rel}\": {msg}");
     // The same path rules for both sources: a scene must not depend on where it is read from.
-    let file = resolve(Path::new(""), rel).map_err(at)?;
+    let confined = !matches!(source, MeshSource::Anywhere(_));
+    let file = resolve(Path::new(""), rel, confined).map_err(at)?;
     let ext = file.extension().and_then(|e| e.to_str()).map(str::to_ascii_lowercase);
     let format = match ext.as_deref() {
         Some("stl") => Format::Stl,
@@ -78,6 +83,10 @@ pub fn load_mesh_from(source: MeshSource<'_>, rel: &str, scale: f64) -> Result<T
     };
     let bytes = match source {
         MeshSource::Folder(scene_dir) => read_inside(scene_dir, &scene_dir.join(&file)).map_err(at)?,
+        MeshSource::Anywhere(scene_dir) => {
+            let path = scene_dir.join(&file);
+            read_regular(&path, &path.display().to_string()).map_err(at)?
+        }
         MeshSource::Embedded(table) => embedded(table, &file).map_err(at)?.to_vec(),
     };
     let (vertices_mm, triangles) = match format {
@@ -94,8 +103,9 @@ enum Format {
     Obj,
 }
 
-/// Checks the path as written and joins it to the scene's folder.
-fn resolve(scene_dir: &Path, rel: &str) -> Result<PathBuf, String> {
+/// Checks the path as written and joins it to the scene's folder; `confined` refuses
+/// absolute paths and `..`.
+fn resolve(scene_dir: &Path, rel: &str, confined: bool) -> Result<PathBuf, String> {
     if rel.trim().is_empty() {
         return Err("the path is empty: give a file relative to the scene file's folder".to_string());
     }
@@ -105,6 +115,9 @@ fn resolve(scene_dir: &Path, rel: &str) -> Result<PathBuf, String> {
         );
     }
     let p = Path::new(rel);
+    if !confined {
+        return Ok(scene_dir.join(p));
+    }
     // `C:` style prefixes are only recognised on Windows; refuse them everywhere.
     let drive = rel.len() >= 2 && rel.as_bytes()[1] == b':' && rel.as_bytes()[0].is_ascii_alphabetic();
     if p.is_absolute() || rel.starts_with('/') || drive {
@@ -152,7 +165,13 @@ fn read_inside(scene_dir: &Path, file: &Path) -> Result<Vec<u8>, String> {
             real.display()
         ));
     }
-    let meta = std::fs::metadata(&real).map_err(|e| format!("cannot read {shown}: {e}"))?;
+    read_regular(&real, &shown.to_string())
+}
+
+/// Reads `file` (named `shown` in messages) if it is a regular file of at most
+/// [`MAX_FILE_BYTES`].
+fn read_regular(file: &Path, shown: &str) -> Result<Vec<u8>, String> {
+    let meta = std::fs::metadata(file).map_err(|e| format!("cannot read {shown}: {e}"))?;
     if !meta.is_file() {
         return Err(format!("{shown} is not a regular file"));
     }
@@ -162,7 +181,7 @@ fn read_inside(scene_dir: &Path, file: &Path) -> Result<Vec<u8>, String> {
             meta.len()
         ));
     }
-    std::fs::read(&real).map_err(|e| format!("cannot read {shown}: {e}"))
+    std::fs::read(file).map_err(|e| format!("cannot read {shown}: {e}"))
 }
 
 type Parsed = (Vec<[f64; 3]>, Vec<[usize; 3]>);
@@ -349,7 +368,80 @@ fn finish(
     if !(diagonal > 0.0 && area > 1e-12 * diagonal * diagonal) {
         return Err("is degenerate: all its triangles have zero area".to_string());
     }
+    check_closed(&vertices_mm, &triangles)?;
+    check_solid(&vertices, &tris, diagonal)?;
     Ok(TriangleMesh { vertices, triangles: tris })
+}
+
+/// A mesh object must be a closed surface: every edge borders an even number of
+/// triangles (two, for a plain surface). Vertices are compared by position, so a file
+/// that repeats a vertex (an OBJ with seams, say) is welded first. An open surface has no
+/// inside: it cannot be enclosed, and its hull is not the object.
+fn check_closed(vertices_mm: &[[f64; 3]], triangles: &[[usize; 3]]) -> Result<(), String> {
+    use std::collections::HashMap;
+    let key = |i: usize| vertices_mm[i].map(|c| if c == 0.0 { 0u64 } else { c.to_bits() });
+    let mut id: HashMap<[u64; 3], usize> = HashMap::new();
+    let welded: Vec<[usize; 3]> = triangles
+        .iter()
+        .map(|t| {
+            t.map(|i| {
+                let n = id.len();
+                *id.entry(key(i)).or_insert(n)
+            })
+        })
+        .collect();
+    let edge = |a: usize, b: usize| if a < b { (a, b) } else { (b, a) };
+    let mut count: HashMap<(usize, usize), usize> = HashMap::new();
+    for t in &welded {
+        for k in 0..3 {
+            let (a, b) = (t[k], t[(k + 1) % 3]);
+            if a != b {
+                *count.entry(edge(a, b)).or_insert(0) += 1;
+            }
+        }
+    }
+    let open = count.values().filter(|&&n| n % 2 == 1).count();
+    if open == 0 {
+        return Ok(());
+    }
+    // the first open edge in file order, for a message that points somewhere
+    for (t, orig) in welded.iter().zip(triangles) {
+        for k in 0..3 {
+            let (a, b) = (t[k], t[(k + 1) % 3]);
+            if a != b && count[&edge(a, b)] % 2 == 1 {
+                let p = |v: [f64; 3]| format!("({} {} {})", v[0], v[1], v[2]);
+                return Err(format!(
+                    "is not a closed surface: the edge from {} to {} borders {} triangle(s) ({open} open \
+                     edge(s) in all); a mesh object must be watertight",
+                    p(vertices_mm[orig[k]]),
+                    p(vertices_mm[orig[(k + 1) % 3]]),
+                    count[&edge(a, b)]
+                ));
+            }
+        }
+    }
+    Ok(())
+}
+
+/// The vertices of a mesh object must span a volume: a closed but flat mesh (two
+/// triangles back to back) has no inside and no convex hull.
+fn check_solid(vertices: &[Vec3], triangles: &[[u32; 3]], diagonal: f64) -> Result<(), String> {
+    let tol = 1e-9 * diagonal;
+    let plane = triangles.iter().find_map(|t| {
+        let [a, b, c] = t.map(|i| vertices[i as usize]);
+        let n = (b - a).cross(c - a);
+        (n.length() > 1e-12 * diagonal * diagonal).then(|| (a, n.normalize()))
+    });
+    let Some((origin, normal)) = plane else {
+        return Err("is degenerate: all its triangles have zero area".to_string());
+    };
+    let off_plane =
+        triangles.iter().flatten().any(|&i| normal.dot(vertices[i as usize] - origin).abs() > tol);
+    if off_plane {
+        Ok(())
+    } else {
+        Err("is flat: all its vertices lie in one plane, so it encloses no volume".to_string())
+    }
 }
 
 #[cfg(test)]
@@ -539,6 +631,25 @@ mod tests {
         }
         d.write("many.obj", many.as_bytes());
         assert!(err(&d, "many.obj").contains("has more than 200000 triangles"), "{}", err(&d, "many.obj"));
+        // a tetrahedron without its last face: open along three edges
+        d.write("open.obj", TETRA_OBJ.replace("f 2 3 4\n", "").as_bytes());
+        let e = err(&d, "open.obj");
+        assert!(
+            e.contains("is not a closed surface: the edge from (0 10 0) to (10 0 0) borders 1 triangle(s) (3 open edge(s) in all)"),
+            "{e}"
+        );
+        // two triangles back to back: closed, but flat
+        d.write("flat2.obj", b"v 0 0 0\nv 1 0 0\nv 0 1 0\nf 1 2 3\nf 1 3 2\n");
+        assert!(
+            err(&d, "flat2.obj").contains("is flat: all its vertices lie in one plane"),
+            "{}",
+            err(&d, "flat2.obj")
+        );
+        // a closed OBJ that repeats a vertex per face is welded, so it is closed
+        let split = "v 0 0 0\nv 10 0 0\nv 0 10 0\nv 0 0 0\nv 10 0 0\nv 0 0 10\nv 0 0 0\nv 0 0 10\nv 0 10 0\n\
+                     v 10 0 0\nv 0 10 0\nv 0 0 10\nf 1 3 2\nf 4 5 6\nf 7 8 9\nf 10 11 12\n";
+        d.write("split.obj", split.as_bytes());
+        assert!(load_mesh(&d.0, "split.obj", 1.0).is_ok());
         d.write("big.obj", TETRA_OBJ.as_bytes());
         let e = load_mesh(&d.0, "big.obj", 1e4).unwrap_err();
         assert!(e.contains("m across after scaling"), "{e}");

@@ -45,11 +45,42 @@ pub const MAX_SCENE_BYTES: u64 = 16 * 1024 * 1024;
 /// # Errors
 /// [`AppError::Io`] when the file cannot be read, [`AppError::Input`] when it does not
 /// parse or does not validate, with messages as described in the module docs.
+#[allow(dead_code, reason = "the plain entry point; the commands with a mesh flag call `load_with`")]
 pub fn load(path: &Path) -> Result<Scene, AppError> {
+    load_with(path, MeshAccess::SceneFolder)
+}
+
+/// Which mesh paths a scene file may give.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum MeshAccess {
+    /// Only files inside the scene file's folder (the default: scenes are untrusted).
+    SceneFolder,
+    /// Any readable regular file: absolute paths, `..`, links out of the folder
+    /// (`--allow-outside-meshes`).
+    Anywhere,
+}
+
+impl MeshAccess {
+    /// From the command-line flag.
+    pub fn from_flag(allow_outside: bool) -> Self {
+        if allow_outside { Self::Anywhere } else { Self::SceneFolder }
+    }
+}
+
+/// As [`load`], with the mesh paths allowed by `meshes`.
+///
+/// # Errors
+/// As [`load`].
+pub fn load_with(path: &Path, meshes: MeshAccess) -> Result<Scene, AppError> {
     let file = path.display().to_string();
     let text = read_source(path)?;
     let doc = parse_doc(&file, &text)?;
-    build_scene(&doc, &scene_dir(path)).map_err(|problems| AppError::Input(format_problems(&file, &problems)))
+    let dir = scene_dir(path);
+    let built = match meshes {
+        MeshAccess::SceneFolder => build_scene(&doc, &dir),
+        MeshAccess::Anywhere => build_scene_from(&doc, MeshSource::Anywhere(&dir)),
+    };
+    built.map_err(|problems| AppError::Input(format_problems(&file, &problems)))
 }
 
 /// Loads, validates and converts a scene given as text, named `name` in messages, whose
@@ -84,6 +115,12 @@ pub fn read_source(path: &Path) -> Result<String, AppError> {
         std::fs::metadata(path).map_err(|e| AppError::io(format!("cannot read scene file {shown}"), e))?;
     if meta.is_dir() {
         return Err(AppError::input(format!("{shown}: is a folder, not a scene file")));
+    }
+    if !meta.is_file() {
+        // a pipe or a device could block the read forever or never end
+        return Err(AppError::input(format!(
+            "{shown}: is not a regular file (a pipe, socket or device); give a scene file"
+        )));
     }
     if meta.len() > MAX_SCENE_BYTES {
         return Err(AppError::input(format!(

@@ -47,6 +47,31 @@ pub const MAX_SWEEP_STEPS: f64 = 10_000.0;
 /// Smallest stretch at which a material must be stable in planar tension: the
 /// under-layer and floor are compressed when the finger bends.
 pub const STABLE_FROM_STRETCH: f64 = 0.5;
+/// Most fingers on one gripper: each finger is a contact solve per object and pressure.
+pub const MAX_FINGERS: usize = 16;
+/// Most objects in one scene: each is checked at every sweep pressure.
+pub const MAX_OBJECTS: usize = 100;
+/// Most actuator designs in one scene.
+pub const MAX_ACTUATORS: usize = 64;
+/// Most material blocks in one scene.
+pub const MAX_MATERIALS: usize = 64;
+/// Most terms of an Ogden model (fits offer three; six is generous).
+pub const MAX_OGDEN_TERMS: usize = 6;
+/// Largest material constant (kPa): 1 GPa, a thousand times the stiffest casting rubber.
+pub const MAX_MODULUS_KPA: f64 = 1e6;
+/// Largest Ogden exponent in magnitude: powers of a stretch beyond it overflow long
+/// before a rubber breaks.
+pub const MAX_OGDEN_ALPHA: f64 = 50.0;
+/// Largest friction coefficient: a value above it is a percentage or a typo.
+pub const MAX_FRICTION: f64 = 10.0;
+/// Largest acceleration of a load case (m/s²): 100 g.
+pub const MAX_ACCEL_M_S2: f64 = 1000.0;
+/// Largest contact force limit (N): 1 MN.
+pub const MAX_FORCE_N: f64 = 1e6;
+/// Largest mount azimuth in magnitude (degrees): two turns.
+pub const MAX_AZIMUTH_DEG: f64 = 720.0;
+/// Longest name (characters): names appear in tables, reports and messages.
+pub const MAX_NAME_CHARS: usize = 200;
 
 /// One thing wrong with a scene: where, and what.
 #[derive(Debug, Clone, PartialEq, Eq)]
@@ -83,16 +108,25 @@ pub fn build_scene_from(doc: &SceneDoc, meshes: MeshSource<'_>) -> Result<Scene,
     let mut c = Checker { problems: Vec::new() };
     if doc.name.trim().is_empty() {
         c.push("name", "must not be empty");
+    } else {
+        c.name_text("name", &doc.name);
     }
+    c.count("materials", doc.materials.iter().count(), MAX_MATERIALS, "material blocks");
+    c.count("actuators", doc.actuators.iter().count(), MAX_ACTUATORS, "actuators");
+    c.count("gripper.fingers", doc.gripper.fingers.len(), MAX_FINGERS, "fingers");
+    c.count("objects", doc.objects.len(), MAX_OBJECTS, "objects");
 
     let mut materials: Vec<(String, Option<Material>)> = Vec::new();
     for (name, m) in doc.materials.iter() {
-        let m = c.material(&format!("materials.\"{name}\""), m);
+        let path = format!("materials.\"{}\"", shown(name));
+        c.name_text(&path, name);
+        let m = c.material(&path, m);
         materials.push((name.to_string(), m));
     }
 
     let mut actuators = Vec::new();
     for (name, a) in doc.actuators.iter() {
+        c.name_text(&format!("actuators.\"{}\"", shown(name)), name);
         actuators.push(c.actuator(name, a, &materials));
     }
 
@@ -121,14 +155,61 @@ struct Checker {
     problems: Vec<Problem>,
 }
 
+/// A name as it may be shown in a message: control and bidirectional-override
+/// characters written as escapes, so a name cannot move the cursor, clear the terminal
+/// or reorder the line it is shown in.
+pub fn shown(name: &str) -> String {
+    let mut out = String::with_capacity(name.len());
+    for c in name.chars() {
+        if is_hostile(c) {
+            out.extend(c.escape_unicode());
+        } else {
+            out.push(c);
+        }
+    }
+    out
+}
+
+/// Characters a name may not hold: control characters and the bidirectional overrides
+/// and isolates (which make text read differently from how it is stored).
+fn is_hostile(c: char) -> bool {
+    c.is_control() || matches!(c, '\u{202a}'..='\u{202e}' | '\u{2066}'..='\u{2069}')
+}
+
 /// `"a", "b"` as a list for messages.
 fn quoted_list<'a>(names: impl IntoIterator<Item = &'a str>) -> String {
-    names.into_iter().collect::<Vec<_>>().join(", ")
+    names.into_iter().map(shown).collect::<Vec<_>>().join(", ")
 }
 
 impl Checker {
     fn push(&mut self, path: impl Into<String>, message: impl Into<String>) {
         self.problems.push(Problem { path: path.into(), message: message.into() });
+    }
+
+    /// At most `max` entries in a list or map.
+    fn count(&mut self, path: &str, n: usize, max: usize, what: &str) {
+        if n > max {
+            self.push(path, format!("must have at most {max} {what}, got {n}"));
+        }
+    }
+
+    /// A name: no control or bidirectional-override characters, at most
+    /// [`MAX_NAME_CHARS`] characters.
+    fn name_text(&mut self, path: &str, name: &str) {
+        if let Some((i, c)) = name.chars().enumerate().find(|(_, c)| is_hostile(*c)) {
+            self.push(
+                path,
+                format!(
+                    "a name must not contain control or text-direction characters, found {} at character {}",
+                    c.escape_unicode(),
+                    i + 1
+                ),
+            );
+        }
+        let n = name.chars().count();
+        if n > MAX_NAME_CHARS {
+            self.push(path, format!("a name must have at most {MAX_NAME_CHARS} characters, got {n}"));
+        }
     }
 
     fn finite(&mut self, path: &str, v: f64) -> Option<f64> {
@@ -241,7 +322,20 @@ impl Checker {
     }
 
     fn model(&mut self, path: &str, m: &MaterialModelDoc) -> Option<HyperelasticModel> {
-        let kpa = |c: &mut Self, name: &str, v: f64| c.finite(&format!("{path}.{name}"), v).map(|v| v * 1e3);
+        let kpa = |c: &mut Self, name: &str, v: f64| {
+            let field = format!("{path}.{name}");
+            let v = c.finite(&field, v)?;
+            if v.abs() > MAX_MODULUS_KPA {
+                c.push(
+                    field,
+                    format!(
+                        "must be at most {MAX_MODULUS_KPA} kPa in magnitude (1 GPa; is it in Pa?), got {v}"
+                    ),
+                );
+                return None;
+            }
+            Some(v * 1e3)
+        };
         match m {
             MaterialModelDoc::NeoHookean { mu_kpa } => {
                 let mu = kpa(self, "mu_kpa", *mu_kpa)?;
@@ -294,18 +388,33 @@ impl Checker {
                     self.push(format!("{path}.terms"), "must have at least one term, got none");
                     return None;
                 }
+                if terms.len() > MAX_OGDEN_TERMS {
+                    self.push(
+                        format!("{path}.terms"),
+                        format!("must have at most {MAX_OGDEN_TERMS} terms, got {}", terms.len()),
+                    );
+                    return None;
+                }
                 let mut ok = true;
                 let mut core_terms = Vec::new();
                 for (i, t) in terms.iter().enumerate() {
                     let tp = format!("{path}.terms[{i}]");
-                    let mu = self.finite(&format!("{tp}.mu_kpa"), t.mu_kpa);
-                    let alpha = self.finite(&format!("{tp}.alpha"), t.alpha);
+                    let mu = kpa(self, &format!("terms[{i}].mu_kpa"), t.mu_kpa);
+                    let mut alpha = self.finite(&format!("{tp}.alpha"), t.alpha);
                     if alpha == Some(0.0) {
                         self.push(format!("{tp}.alpha"), "must be non-zero, got 0");
                         ok = false;
+                    } else if let Some(a) = alpha
+                        && a.abs() > MAX_OGDEN_ALPHA
+                    {
+                        self.push(
+                            format!("{tp}.alpha"),
+                            format!("must be at most {MAX_OGDEN_ALPHA} in magnitude, got {a}"),
+                        );
+                        alpha = None;
                     }
                     match (mu, alpha) {
-                        (Some(mu), Some(alpha)) => core_terms.push(OgdenTerm { mu: mu * 1e3, alpha }),
+                        (Some(mu), Some(alpha)) => core_terms.push(OgdenTerm { mu, alpha }),
                         _ => ok = false,
                     }
                 }
@@ -348,9 +457,9 @@ impl Checker {
         let lib = library();
         let scene_names = materials.iter().map(|(n, _)| n.as_str());
         let all: Vec<&str> = scene_names.clone().chain(lib.iter().map(|e| e.name)).collect();
-        let mut msg = format!("unknown material \"{name}\"");
+        let mut msg = format!("unknown material \"{}\"", shown(name));
         if let Some(s) = nearest(name, all.iter().copied()) {
-            msg.push_str(&format!("; did you mean \"{s}\"?"));
+            msg.push_str(&format!("; did you mean \"{}\"?", shown(s)));
         }
         let defined = quoted_list(scene_names);
         if defined.is_empty() {
@@ -373,7 +482,7 @@ impl Checker {
         a: &ActuatorDoc,
         materials: &[(String, Option<Material>)],
     ) -> Option<Actuator> {
-        let path = format!("actuators.\"{name}\"");
+        let path = format!("actuators.\"{}\"", shown(name));
         let p = |f: &str| format!("{path}.{f}");
         let material = self.resolve_material(&p("material"), &a.material, materials);
         let chamber = self.length(&p("chamber_length_mm"), a.chamber_length_mm, false);
@@ -502,9 +611,9 @@ impl Checker {
             let actuator = match names.iter().position(|n| *n == f.actuator) {
                 Some(k) => Some(k),
                 None => {
-                    let mut msg = format!("unknown actuator \"{}\"", f.actuator);
+                    let mut msg = format!("unknown actuator \"{}\"", shown(&f.actuator));
                     if let Some(s) = nearest(&f.actuator, names.iter().copied()) {
-                        msg.push_str(&format!("; did you mean \"{s}\"?"));
+                        msg.push_str(&format!("; did you mean \"{}\"?", shown(s)));
                     }
                     if names.is_empty() {
                         msg.push_str(" (the scene defines no actuators)");
@@ -515,7 +624,17 @@ impl Checker {
                     None
                 }
             };
-            let azimuth = self.finite(&p("azimuth_deg"), f.azimuth_deg);
+            let azimuth = self.finite(&p("azimuth_deg"), f.azimuth_deg).and_then(|a| {
+                if a.abs() <= MAX_AZIMUTH_DEG {
+                    Some(a)
+                } else {
+                    self.push(
+                        p("azimuth_deg"),
+                        format!("must be within {MAX_AZIMUTH_DEG} degrees of 0 (two turns), got {a}"),
+                    );
+                    None
+                }
+            });
             let radius = self.length(&p("radius_mm"), f.radius_mm, true);
             let tilt = self.finite(&p("tilt_deg"), f.tilt_deg).and_then(|t| {
                 if t > -90.0 && t < 90.0 {
@@ -549,20 +668,27 @@ impl Checker {
             let p = |f: &str| format!("objects[{i}].{f}");
             if o.name.trim().is_empty() {
                 self.push(p("name"), "must not be empty");
+            } else if o.name.chars().any(is_hostile) || o.name.chars().count() > MAX_NAME_CHARS {
+                self.name_text(&p("name"), &o.name);
             } else if let Some(first) = objects[..i].iter().position(|e| e.name == o.name) {
                 self.push(
                     p("name"),
-                    format!("duplicate name \"{}\": objects[{first}] already uses it", o.name),
+                    format!("duplicate name \"{}\": objects[{first}] already uses it", shown(&o.name)),
                 );
             }
             let shape = self.shape(&p("shape"), &o.shape, meshes);
             let mass = self
                 .positive(&p("mass_g"), o.mass_g)
                 .and_then(|m| self.at_most(&p("mass_g"), m, MAX_MASS_G, " g", "100 kg; is it in g?"));
-            let friction = self.non_negative(&p("friction"), o.friction);
+            let friction = self.non_negative(&p("friction"), o.friction).and_then(|f| {
+                self.at_most(&p("friction"), f, MAX_FRICTION, "", "a coefficient, not a percentage")
+            });
             let position = self.triple(&p("position_mm"), o.position_mm, Self::coordinate);
             let max_force = match o.max_contact_force_n {
-                Some(f) => self.positive(&p("max_contact_force_n"), f).map(Some),
+                Some(f) => self
+                    .positive(&p("max_contact_force_n"), f)
+                    .and_then(|f| self.at_most(&p("max_contact_force_n"), f, MAX_FORCE_N, " N", "1 MN"))
+                    .map(Some),
                 None => Some(None),
             };
             match (shape, mass, friction, position, max_force) {
@@ -692,8 +818,11 @@ impl Checker {
                 None
             }
         });
-        let lift = self.non_negative("criteria.lift_accel_m_s2", c.lift_accel_m_s2);
-        let lateral = self.non_negative("criteria.lateral_accel_m_s2", c.lateral_accel_m_s2);
+        let accel = |ch: &mut Self, path: &str, v: f64| {
+            ch.non_negative(path, v).and_then(|v| ch.at_most(path, v, MAX_ACCEL_M_S2, " m/s²", "100 g"))
+        };
+        let lift = accel(self, "criteria.lift_accel_m_s2", c.lift_accel_m_s2);
+        let lateral = accel(self, "criteria.lateral_accel_m_s2", c.lateral_accel_m_s2);
         let n_fingers = doc.gripper.fingers.len();
         let min_fingers = c.min_fingers_in_contact as usize;
         let min_fingers = if min_fingers >= 1 && min_fingers <= n_fingers {

@@ -223,11 +223,17 @@ pub struct CheckSettings {
     pub enclosure_directions: usize,
     /// Check at this supply pressure instead of the scene's (Pa).
     pub pressure_override: Option<f64>,
+    /// Wall-clock deadline of the whole check (`None` = none). The evaluation is to test
+    /// it between solver steps and report what it leaves unfinished as
+    /// [`Failure::NotConverged`], never as a pass; results must not depend on it while it
+    /// is not reached. Callers that need a hard bound also enforce it from outside (the
+    /// `arcfinger` binary does).
+    pub deadline: Option<std::time::Instant>,
 }
 
 impl Default for CheckSettings {
     fn default() -> Self {
-        Self { elements: 40, enclosure_directions: 256, pressure_override: None }
+        Self { elements: 40, enclosure_directions: 256, pressure_override: None, deadline: None }
     }
 }
 

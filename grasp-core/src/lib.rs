@@ -19,6 +19,7 @@
 //! - [`geometry`]: the hub layout, object shapes and finger bodies as parry3d shapes.
 //! - [`grasp`]: grasp criteria at a pressure: enclosure, holding margins, epsilon quality.
 //! - [`check`]: the grasp check of a whole scene, with verdicts and pressure windows.
+//! - [`sweep`]: layout search: search spaces, candidates, ranking, Pareto front, shards.
 #![deny(clippy::print_stdout, clippy::print_stderr)]
 
 pub mod actuator;
@@ -31,3 +32,4 @@ pub mod math;
 pub mod rod;
 pub mod scene;
 pub mod section;
+pub mod sweep;

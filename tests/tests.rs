@@ -11,3 +11,5 @@ mod bend;
 mod scene_errors;
 // `arcfinger fit`: material fits on Treloar's data, JSON contract, refusals of bad CSV.
 mod fit;
+// `arcfinger sweep` and `merge`: shards, resume and thread count give the same file; emitted scenes.
+mod sweep;

@@ -49,5 +49,7 @@ fn run(opts: cli::Opts) -> Result<Outcome, AppError> {
         cli::Command::Bend(args) => commands::bend::run(args),
         cli::Command::Materials(args) => commands::materials::run(args),
         cli::Command::Fit(args) => commands::fit::run(args),
+        cli::Command::Sweep(args) => commands::sweep::run(args),
+        cli::Command::Merge(args) => commands::merge::run(args),
     }
 }

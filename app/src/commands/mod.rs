@@ -5,3 +5,5 @@ pub mod bend;
 pub mod check;
 pub mod fit;
 pub mod materials;
+pub mod merge;
+pub mod sweep;

@@ -153,7 +153,7 @@ mod tests {
         assert_eq!((all.shared_window, all.window_width, all.min_margin), (Some((40e3, 40e3)), 0.0, 2.0));
         let disjoint = Score::new(&[Some((10e3, 20e3)), Some((30e3, 45e3))], &[2.0, 3.0], 4);
         assert!(!disjoint.whole_set && disjoint.shared_window.is_none());
-        assert_eq!(Score::new(&[], &[], 3).whole_set, false);
+        assert!(!Score::new(&[], &[], 3).whole_set);
     }
 
     /// The keys apply in their documented order.

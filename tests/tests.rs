@@ -13,3 +13,5 @@ mod scene_errors;
 mod fit;
 // `arcfinger sweep` and `merge`: shards, resume and thread count give the same file; emitted scenes.
 mod sweep;
+// `arcfinger review`: one self-contained, well-formed HTML file with charts; Markdown summary; escaping.
+mod review;

@@ -33,6 +33,8 @@ pub enum Command {
     Sweep(SweepArgs),
     /// Combine the results files of sweep shards into the result of the whole sweep.
     Merge(MergeArgs),
+    /// Side-by-side review of 1 to 6 candidate grippers: an HTML report and a Markdown summary.
+    Review(ReviewArgs),
 }
 
 /// `arcfinger check`.
@@ -198,4 +200,18 @@ pub struct MergeArgs {
     /// Accept rounds with missing candidates (otherwise an error listing them).
     #[arg(long)]
     pub partial: bool,
+}
+
+/// `arcfinger review`.
+#[derive(Debug, Args)]
+pub struct ReviewArgs {
+    /// Scene files of the candidates (1 to 6).
+    #[arg(required = true, value_name = "SCENE")]
+    pub scenes: Vec<PathBuf>,
+    /// Folder for review.html and review.md [default: review].
+    #[arg(long, value_name = "DIR")]
+    pub out: Option<PathBuf>,
+    /// Rod elements along each chamber (>= 40).
+    #[arg(long, value_name = "N", default_value_t = 40)]
+    pub elements: usize,
 }

@@ -6,4 +6,5 @@ pub mod check;
 pub mod fit;
 pub mod materials;
 pub mod merge;
+pub mod review;
 pub mod sweep;

@@ -37,21 +37,19 @@ pub fn windows_svg(
             .y_label_area_size(130)
             .build_cartesian_2d(0.0..p_max.max(1.0), 0.0..rows as f64)
             .map_err(|e| e.to_string())?;
-        let names = objects.to_vec();
         chart
             .configure_mesh()
             .x_desc("supply pressure (kPa)")
-            .y_labels(rows)
-            .y_label_formatter(&|y| {
-                let k = rows as f64 - y - 0.5;
-                if k >= 0.0 && (k - k.round()).abs() < 1e-6 {
-                    names.get(k.round() as usize).cloned().unwrap_or_default()
-                } else {
-                    String::new()
-                }
-            })
+            .y_labels(0)
+            .disable_y_mesh()
             .draw()
             .map_err(|e| e.to_string())?;
+        // object names beside their rows (the axis's own labels fall on tick values)
+        for (o, name) in objects.iter().enumerate() {
+            let (_, y) = chart.backend_coord(&(0.0, rows as f64 - o as f64 - 0.5));
+            root.draw(&Text::new(name.clone(), (16, y - 7), ("sans-serif", 14)))
+                .map_err(|e| e.to_string())?;
+        }
         let n = candidates.len().max(1) as f64;
         for (c, name) in candidates.iter().enumerate() {
             let colour = PALETTE[c % PALETTE.len()];

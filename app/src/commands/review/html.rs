@@ -15,7 +15,7 @@ th{background:#f2f2f2}.pass{color:#0072b2;font-weight:bold}.fail{color:#d55e00;f
 .unknown{color:#cc79a7;font-weight:bold}.cards{display:flex;flex-wrap:wrap;gap:1em}\
 .card{border:1px solid #bbb;padding:1em;width:340px}.picture{width:320px;height:240px;background:#f6f6f6;\
 display:flex;align-items:center;justify-content:center;text-align:center;color:#666;font-size:90%}\
-.picture img{max-width:320px;max-height:240px}.caution{border-left:4px solid #d55e00;padding-left:1em}";
+.picture img{max-width:320px;max-height:240px}.chart svg{width:380px;height:auto}.caution{border-left:4px solid #d55e00;padding-left:1em}";
 
 fn status_cell(st: Status) -> String {
     let class = match st {
@@ -136,6 +136,9 @@ pub fn page(cands: &[Candidate]) -> Result<String, AppError> {
     s.push_str("<h2>Pressure windows</h2>\n<p>Where each object passes over each candidate's pressure sweep (widest run).</p>\n");
     s.push_str(&charts::windows_svg(&objects, &names, &windows, p_max).map_err(chart_err)?);
     s.push('\n');
+    if windows.iter().flatten().all(Option::is_none) {
+        s.push_str("<p>No object passes at any swept pressure of any candidate.</p>\n");
+    }
     // margins
     s.push_str("<h2>Margins at the supply pressure</h2>\n<table id=\"margins\"><tr><th>object</th><th>candidate</th>\
                 <th>lift</th><th>lateral (min)</th><th>enclosure</th><th>peak contact force (N)</th><th>window (kPa)</th></tr>\n");
@@ -158,13 +161,19 @@ pub fn page(cands: &[Candidate]) -> Result<String, AppError> {
     }
     s.push_str("</table>\n");
     // bend curves
-    s.push_str("<h2>Bend and blocked force</h2>\n");
+    s.push_str("<h2>Bend and blocked force</h2>\n<div class=\"cards\">\n");
     for (k, c) in cands.iter().enumerate() {
         for b in &c.bends {
             let svg = crate::plot::bend_svg(b).map_err(chart_err)?;
-            let _ = writeln!(s, "<h3>{}: actuator {}</h3>\n{svg}", label(k), esc(&b.actuator));
+            let _ = writeln!(
+                s,
+                "<div class=\"chart\"><h3>{}: actuator {}</h3>\n{svg}</div>",
+                label(k),
+                esc(&b.actuator)
+            );
         }
     }
+    s.push_str("</div>\n");
     s.push_str("<h2>Fabrication</h2>\n<p>No fabrication summary: the fabrication sheet is not part of this build.</p>\n");
     let _ = write!(s, "<h2>Cautions</h2>\n<p class=\"caution\">{}</p>\n</body>\n</html>\n", esc(CAUTIONS));
     Ok(s)

@@ -153,11 +153,12 @@ pub fn outcome(ranked: &[&Record]) -> Outcome {
     }
 }
 
-/// The fingerprint of a sweep: FNV-1a over the format, the scene file, its meshes, the
-/// space file and the settings, as 16 hex digits.
+/// The fingerprint of a sweep: FNV-1a over the format and arcfinger's version, the scene
+/// file, its meshes, the space file and the settings, as 16 hex digits.
 fn fingerprint(scene: &[u8], meshes: &[(String, Vec<u8>)], space: &[u8], elements: usize) -> String {
     let mut h = Fnv1a::default();
     h.part(FORMAT.as_bytes());
+    h.part(env!("CARGO_PKG_VERSION").as_bytes());
     h.part(scene);
     for (path, bytes) in meshes {
         h.part(path.as_bytes());
@@ -484,6 +485,21 @@ mod tests {
             let e = parse_shard(bad).unwrap_err();
             assert!(e.to_string().contains("expected I/N"), "{bad}: {e}");
         }
+    }
+
+    /// Every input of a sweep changes its fingerprint; parts cannot run into each other.
+    #[test]
+    fn the_fingerprint_covers_every_input() {
+        let meshes = vec![("m.obj".to_string(), b"v 0 0 0".to_vec())];
+        let base = fingerprint(b"scene", &meshes, b"space", 40);
+        assert_eq!(base.len(), 16);
+        assert_eq!(base, fingerprint(b"scene", &meshes, b"space", 40));
+        assert_ne!(base, fingerprint(b"scene ", &meshes, b"space", 40));
+        assert_ne!(base, fingerprint(b"scene", &[], b"space", 40));
+        assert_ne!(base, fingerprint(b"scene", &[("n.obj".into(), b"v 0 0 0".to_vec())], b"space", 40));
+        assert_ne!(base, fingerprint(b"scene", &meshes, b"space2", 40));
+        assert_ne!(base, fingerprint(b"scene", &meshes, b"space", 48));
+        assert_ne!(fingerprint(b"ab", &[], b"c", 40), fingerprint(b"a", &[], b"bc", 40));
     }
 
     /// The scene written for a candidate loads, through the ordinary loader, into the very

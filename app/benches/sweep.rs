@@ -73,8 +73,9 @@ fn main() {
     let lines = std::fs::read_to_string(&out).map(|s| s.lines().count()).unwrap_or(0);
     println!(
         "sweep: {lines} candidates x 10 objects x 6 pressures in {wall:.1} s wall, {cpu} CPU, \
-         {:.2} candidates/s (exit {status}); 1000 candidates at this rate: {:.0} s",
+         {:.3} candidates/s (exit code {}); 1000 candidates at this rate: {:.0} s",
         lines as f64 / wall,
+        status.code().map_or("none".to_string(), |c| c.to_string()),
         1000.0 * wall / lines.max(1) as f64
     );
     let _ = std::fs::remove_dir_all(&dir);

@@ -8,9 +8,12 @@
 //! 2. a single-pressure window for the whole object set (candidates that have one first);
 //! 3. width of the shared window (wider first): the intersection of the windows of the
 //!    covered objects (each object's widest run of passing sweep pressures);
-//! 4. the smallest holding margin over all objects at the check pressure (larger first);
-//! 5. fewer fingers;
-//! 6. the candidate index (lower first), so the order is total and repeatable.
+//! 4. the summed width of the covered objects' own windows (wider first): room to spare
+//!    object by object when the shared window is as narrow;
+//! 5. the smallest holding margin over the covered objects at the check pressure (larger
+//!    first), rounded to 1e-6 so that solver round-off (1e-15 against 0) never decides;
+//! 6. fewer fingers;
+//! 7. the candidate index (lower first), so the order is total and repeatable.
 //!
 //! Candidates that could not be evaluated rank after all others. The Pareto front is the
 //! set of evaluated candidates that no other one dominates in (coverage, shared window
@@ -32,8 +35,11 @@ pub struct Score {
     pub whole_set: bool,
     /// Width of the shared window (Pa; 0 when there is none).
     pub window_width: f64,
-    /// Smallest holding margin (lift and lateral cases) over all objects at the check
-    /// pressure (load scale; a value that is not finite counts as 0).
+    /// Sum of the widths of the covered objects' windows (Pa).
+    pub total_window_width: f64,
+    /// Smallest holding margin (lift and lateral cases) over the covered objects at the
+    /// check pressure, or over all objects when none is covered (load scale, rounded to
+    /// 1e-6; a value that is not finite counts as 0).
     pub min_margin: f64,
     /// Number of fingers.
     pub fingers: usize,
@@ -51,14 +57,20 @@ impl Score {
             let hi = covered.iter().map(|w| w.1).fold(f64::INFINITY, f64::min);
             (lo <= hi).then_some((lo, hi))
         };
-        let min_margin =
-            margins.iter().map(|&m| if m.is_finite() { m } else { 0.0 }).fold(f64::INFINITY, f64::min);
+        let any_covered = !covered.is_empty();
+        let min_margin = margins
+            .iter()
+            .zip(windows.iter().map(Option::is_some).chain(std::iter::repeat(false)))
+            .filter(|(_, c)| *c || !any_covered)
+            .map(|(&m, _)| if m.is_finite() { (m * 1e6).round() / 1e6 + 0.0 } else { 0.0 })
+            .fold(f64::INFINITY, f64::min);
         Self {
             covered: covered.len(),
             objects: windows.len(),
             shared_window,
             whole_set: !windows.is_empty() && covered.len() == windows.len() && shared_window.is_some(),
             window_width: shared_window.map_or(0.0, |(a, b)| b - a),
+            total_window_width: covered.iter().map(|(a, b)| b - a).sum(),
             min_margin: if min_margin.is_finite() { min_margin } else { 0.0 },
             fingers,
         }
@@ -71,6 +83,7 @@ pub fn compare(a: &Score, b: &Score) -> Ordering {
         .cmp(&a.covered)
         .then(b.whole_set.cmp(&a.whole_set))
         .then(b.window_width.total_cmp(&a.window_width))
+        .then(b.total_window_width.total_cmp(&a.total_window_width))
         .then(b.min_margin.total_cmp(&a.min_margin))
         .then(a.fingers.cmp(&b.fingers))
 }
@@ -136,6 +149,7 @@ mod tests {
             shared_window: (width > 0.0).then_some((0.0, width)),
             whole_set: covered == 5 && width > 0.0,
             window_width: width,
+            total_window_width: width,
             min_margin: 1.0,
             fingers,
         }
@@ -146,8 +160,13 @@ mod tests {
         let s = Score::new(&[Some((10e3, 40e3)), None, Some((20e3, 50e3))], &[2.0, 0.5, f64::NAN], 3);
         assert_eq!((s.covered, s.objects, s.whole_set), (2, 3, false));
         assert_eq!(s.shared_window, Some((20e3, 40e3)));
-        assert_eq!(s.window_width, 20e3);
+        assert_eq!((s.window_width, s.total_window_width), (20e3, 60e3));
         assert_eq!(s.min_margin, 0.0, "a NaN margin counts as 0, it never ranks a candidate up");
+        // margins of uncovered objects do not count; round-off does not either
+        let s = Score::new(&[Some((10e3, 40e3)), None], &[2.0 + 1e-12, 0.0], 3);
+        assert_eq!(s.min_margin, 2.0);
+        let none = Score::new(&[None, None], &[0.7, 5e-16], 3);
+        assert_eq!(none.min_margin, 0.0);
         let all = Score::new(&[Some((10e3, 40e3)), Some((40e3, 45e3))], &[2.0, 3.0], 4);
         assert!(all.whole_set);
         assert_eq!((all.shared_window, all.window_width, all.min_margin), (Some((40e3, 40e3)), 0.0, 2.0));
@@ -167,9 +186,14 @@ mod tests {
         assert_eq!(compare(&whole, &no_shared), Ordering::Less, "then a window for the whole set");
         let wider = score(5, 20e3, 6);
         assert_eq!(compare(&wider, &whole), Ordering::Less, "then width");
+        let mut roomier = whole;
+        roomier.total_window_width = 40e3;
+        roomier.min_margin = 0.5;
+        assert_eq!(compare(&roomier, &whole), Ordering::Less, "then the objects' own windows");
         partial_wide.covered = 5;
         partial_wide.whole_set = true;
         partial_wide.window_width = 10e3;
+        partial_wide.total_window_width = 10e3;
         whole.min_margin = 3.0;
         assert_eq!(compare(&whole, &partial_wide), Ordering::Less, "then margins");
         whole.min_margin = 1.0;

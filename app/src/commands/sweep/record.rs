@@ -121,6 +121,8 @@ pub struct ScoreRecord {
     pub shared_window_kpa: Option<[f64; 2]>,
     /// Its width (kPa).
     pub window_width_kpa: f64,
+    /// Sum of the covered objects' window widths (kPa).
+    pub total_window_width_kpa: f64,
     /// Smallest holding margin at the check pressure.
     pub min_margin: f64,
     /// Number of fingers.
@@ -136,6 +138,7 @@ impl ScoreRecord {
             whole_set: s.whole_set,
             shared_window_kpa: s.shared_window.map(|(a, b)| [a * 1e-3, b * 1e-3]),
             window_width_kpa: s.window_width * 1e-3,
+            total_window_width_kpa: s.total_window_width * 1e-3,
             min_margin: s.min_margin,
             fingers: s.fingers,
         }

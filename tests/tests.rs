@@ -19,3 +19,7 @@ mod calibrate;
 mod bad_inputs;
 // Time limit, interrupted runs, hostile names in reports, meshes outside the folder.
 mod hardening;
+// `arcfinger sweep` and `merge`: shards, resume and thread count give the same file; emitted scenes.
+mod sweep;
+// `arcfinger review`: one self-contained, well-formed HTML file with charts; Markdown summary; escaping.
+mod review;

@@ -33,6 +33,12 @@ pub enum Command {
     Fab(FabArgs),
     /// Fit the model to a measured prototype and write a calibrated copy of the scene.
     Calibrate(CalibrateArgs),
+    /// Search a space of hub layouts for the gripper that holds the most objects.
+    Sweep(SweepArgs),
+    /// Combine the results files of sweep shards into the result of the whole sweep.
+    Merge(MergeArgs),
+    /// Side-by-side review of 1 to 6 candidate grippers: an HTML report and a Markdown summary.
+    Review(ReviewArgs),
 }
 
 /// `arcfinger check`.
@@ -203,4 +209,68 @@ pub struct CalibrateArgs {
     /// Write the JSON result to FILE (`-` = stdout; the summary then goes to stderr).
     #[arg(long, value_name = "FILE")]
     pub json: Option<String>,
+}
+
+/// `arcfinger sweep`.
+#[derive(Debug, Args)]
+pub struct SweepArgs {
+    /// Scene file (RON): the actuators, objects and criteria; its gripper is replaced by
+    /// each candidate's.
+    pub scene: PathBuf,
+    /// Search-space file (RON; see docs/search-spaces.md).
+    #[arg(long, value_name = "SPACE.ron")]
+    pub space: PathBuf,
+    /// Results file (JSON Lines, one line per candidate), written as results come in.
+    #[arg(long, value_name = "FILE.jsonl")]
+    pub out: Option<PathBuf>,
+    /// Continue the --out file: keep its results and check only the missing candidates.
+    #[arg(long)]
+    pub resume: bool,
+    /// Check only shard I of N (1-based) of the candidates, e.g. 3/16.
+    #[arg(long, value_name = "I/N")]
+    pub shard: Option<String>,
+    /// Rows of the ranking table (0 = no table).
+    #[arg(long, value_name = "N", default_value_t = 10)]
+    pub top: usize,
+    /// Write a scene file for each of the best K candidates into DIR.
+    #[arg(long, num_args = 2, value_names = ["K", "DIR"])]
+    pub emit_top: Option<Vec<String>>,
+    /// No progress bar and no notes on stderr.
+    #[arg(long)]
+    pub quiet: bool,
+    /// Rod elements along each chamber (>= 40).
+    #[arg(long, value_name = "N", default_value_t = 40)]
+    pub elements: usize,
+}
+
+/// `arcfinger merge`.
+#[derive(Debug, Args)]
+pub struct MergeArgs {
+    /// Results files of the shards (JSON Lines from `sweep --out`).
+    #[arg(required = true, value_name = "SHARD.jsonl")]
+    pub files: Vec<PathBuf>,
+    /// Write the merged results to FILE (`-` = stdout, the default).
+    #[arg(long, value_name = "FILE")]
+    pub out: Option<String>,
+    /// Print the ranking table of the best N candidates (to stderr when the results go
+    /// to stdout).
+    #[arg(long, value_name = "N")]
+    pub top: Option<usize>,
+    /// Accept rounds with missing candidates (otherwise an error listing them).
+    #[arg(long)]
+    pub partial: bool,
+}
+
+/// `arcfinger review`.
+#[derive(Debug, Args)]
+pub struct ReviewArgs {
+    /// Scene files of the candidates (1 to 6).
+    #[arg(required = true, value_name = "SCENE")]
+    pub scenes: Vec<PathBuf>,
+    /// Folder for review.html and review.md [default: review].
+    #[arg(long, value_name = "DIR")]
+    pub out: Option<PathBuf>,
+    /// Rod elements along each chamber (>= 40).
+    #[arg(long, value_name = "N", default_value_t = 40)]
+    pub elements: usize,
 }

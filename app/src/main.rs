@@ -54,5 +54,8 @@ fn run(opts: cli::Opts) -> Result<Outcome, AppError> {
         cli::Command::Fit(args) => commands::fit::run(args),
         cli::Command::Fab(args) => commands::fab::run(args),
         cli::Command::Calibrate(args) => commands::calibrate::run(args),
+        cli::Command::Sweep(args) => commands::sweep::run(args),
+        cli::Command::Merge(args) => commands::merge::run(args),
+        cli::Command::Review(args) => commands::review::run(args),
     }
 }

@@ -21,6 +21,7 @@
 //! - [`check`]: the grasp check of a whole scene, with verdicts and pressure windows.
 //! - [`calibrate`]: fit a modulus scale (and floor thickness) to a measured prototype.
 //! - [`fab`]: the fabrication sheet of an actuator (molds, silicone, fiber) and its wrap-pitch check.
+//! - [`sweep`]: layout search: search spaces, candidates, ranking, Pareto front, shards.
 #![deny(clippy::print_stdout, clippy::print_stderr)]
 
 pub mod actuator;
@@ -35,3 +36,4 @@ pub mod math;
 pub mod rod;
 pub mod scene;
 pub mod section;
+pub mod sweep;

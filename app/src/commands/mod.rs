@@ -7,3 +7,6 @@ pub mod check;
 pub mod fab;
 pub mod fit;
 pub mod materials;
+pub mod merge;
+pub mod review;
+pub mod sweep;

@@ -33,6 +33,7 @@ use grasp_core::scene::Scene;
 use crate::error::AppError;
 use crate::scene_doc::SceneDoc;
 
+pub use diagnostics::parse_error_message;
 pub use mesh::MeshSource;
 pub use validate::{Problem, build_scene, build_scene_from};
 

@@ -1,0 +1,131 @@
+//! `arcfinger review SCENE... [--out DIR]`: a side-by-side review of 1 to 6 candidate
+//! grippers, as one self-contained HTML file (`review.html`, charts inlined as SVG) and a
+//! Markdown summary for pull requests (`review.md`).
+//!
+//! Each scene is checked with the grasp check (its own criteria and sweep); the report
+//! shows per candidate a picture slot, the verdict matrix over the union of the objects,
+//! a pressure-window chart across objects and candidates, the bend and blocked-force
+//! curves of each actuator the candidate uses, the margins, and the cautions.
+//!
+//! Pictures: the slot takes a PNG of the candidate at its recommended pressure, inlined
+//! as a `data:` URI ([`Candidate::picture`]). No offscreen renderer is part of this build
+//! yet, so every slot says so; the layout stays the same when pictures come.
+//! A fabrication summary is likewise announced as not available.
+//!
+//! Exit codes: 0 when some candidate passes every object, 1 when none does, 3 when a
+//! solve did not converge for some candidate (the reports are written in all three
+//! cases), 2 for bad input or usage.
+
+pub mod charts;
+pub mod escape;
+mod html;
+mod markdown;
+
+use std::path::{Path, PathBuf};
+
+use grasp_core::check::{CheckReport, CheckSettings};
+use grasp_core::scene::Scene;
+
+use crate::cli::ReviewArgs;
+use crate::commands::bend::{BendDoc, MAX_ELEMENTS, MIN_ELEMENTS};
+use crate::error::{AppError, Outcome};
+use crate::output::{refuse_overwrite, write_atomic};
+use crate::report::{Status, overall_status};
+
+/// Most candidates one review compares.
+pub const MAX_CANDIDATES: usize = 6;
+
+/// Pressures of the bend curves: 0 to the rated pressure in this many steps.
+const BEND_STEPS: usize = 12;
+
+/// One candidate of the review.
+pub struct Candidate {
+    /// The scene file as given.
+    pub file: String,
+    /// The scene.
+    pub scene: Scene,
+    /// Its check.
+    pub report: CheckReport,
+    /// Bend and blocked-force curves of the actuators its fingers use.
+    pub bends: Vec<BendDoc>,
+    /// A PNG picture of the candidate holding its objects, when a renderer provides one.
+    pub picture: Option<Vec<u8>>,
+}
+
+impl Candidate {
+    /// Overall status of its check.
+    pub fn status(&self) -> Status {
+        overall_status(&self.report)
+    }
+}
+
+/// Object names over all candidates, in order of first appearance.
+pub fn object_names(cands: &[Candidate]) -> Vec<String> {
+    let mut names: Vec<String> = Vec::new();
+    for c in cands {
+        for o in &c.report.objects {
+            if !names.contains(&o.name) {
+                names.push(o.name.clone());
+            }
+        }
+    }
+    names
+}
+
+fn bends(scene: &Scene, elements: usize) -> Result<Vec<BendDoc>, AppError> {
+    let mut used: Vec<usize> = scene.gripper.fingers.iter().map(|f| f.actuator).collect();
+    used.sort_unstable();
+    used.dedup();
+    used.into_iter()
+        .filter_map(|i| scene.actuators.get(i))
+        .map(|a| {
+            let top = a.max_pressure * 1e-3;
+            let pressures: Vec<f64> = (0..=BEND_STEPS).map(|k| top * k as f64 / BEND_STEPS as f64).collect();
+            crate::commands::bend::compute(a, &pressures, a.section_model, elements)
+        })
+        .collect()
+}
+
+/// Runs `review`.
+pub fn run(args: ReviewArgs) -> Result<Outcome, AppError> {
+    if args.scenes.is_empty() || args.scenes.len() > MAX_CANDIDATES {
+        return Err(AppError::input(format!(
+            "review compares 1 to {MAX_CANDIDATES} scenes, got {}",
+            args.scenes.len()
+        )));
+    }
+    if !(MIN_ELEMENTS..=MAX_ELEMENTS).contains(&args.elements) {
+        return Err(AppError::input(format!(
+            "--elements: must be between {MIN_ELEMENTS} and {MAX_ELEMENTS}, got {}",
+            args.elements
+        )));
+    }
+    let dir = args.out.unwrap_or_else(|| PathBuf::from("review"));
+    let html_path = dir.join("review.html");
+    let md_path = dir.join("review.md");
+    let mut loaded = Vec::new();
+    for path in &args.scenes {
+        loaded.push((path.clone(), crate::scene_file::load(path)?));
+    }
+    let inputs: Vec<&Path> = args.scenes.iter().map(PathBuf::as_path).collect();
+    refuse_overwrite(&html_path, &inputs)?;
+    refuse_overwrite(&md_path, &inputs)?;
+    let settings = CheckSettings { elements: args.elements, ..CheckSettings::default() };
+    let mut cands = Vec::new();
+    for (path, scene) in loaded {
+        let report = grasp_core::check::check_scene(&scene, &settings)?;
+        let bends = bends(&scene, args.elements.max(MIN_ELEMENTS))?;
+        cands.push(Candidate { file: path.display().to_string(), scene, report, bends, picture: None });
+    }
+    let page = html::page(&cands)?;
+    let summary = markdown::summary(&cands);
+    std::fs::create_dir_all(&dir).map_err(|e| AppError::io(format!("creating {}", dir.display()), e))?;
+    write_atomic(&html_path, page.as_bytes())?;
+    write_atomic(&md_path, summary.as_bytes())?;
+    eprintln!("arcfinger: wrote {} and {}", html_path.display(), md_path.display());
+    let statuses: Vec<Status> = cands.iter().map(Candidate::status).collect();
+    if statuses.contains(&Status::Unknown) {
+        return Err(AppError::NotConverged("a candidate's result is unknown (see the report)".into()));
+    }
+    Ok(if statuses.contains(&Status::Pass) { Outcome::Pass } else { Outcome::Fail })
+}

@@ -434,6 +434,86 @@ mod tests {
         .unwrap()
     }
 
+    /// Every reported contact set balances the finger (statics of a rod, the free-body
+    /// diagram of the part beyond a cut; Timoshenko & Gere, "Theory of Elastic
+    /// Stability", 1961, ch. 2, for the elastica): at the middle of every element the
+    /// internal moment of the section law, `m(kappa_j)`, equals the moment about that
+    /// point of every load beyond it, the reported contact forces (`-normal_force *
+    /// normal`, at the reported points, taken into the finger's plane) and the finger's
+    /// weight. Recomputed here from the report alone, so a wrong point, normal, scale or
+    /// element in the report shows; the discretisation error is `O(h^2)`, well under
+    /// the 2 % of the largest moment allowed.
+    #[test]
+    fn every_reported_contact_set_balances_the_finger() {
+        use crate::math::Vec2;
+        let a = demo_finger();
+        let rod = Rod::of_actuator(&a, 40).unwrap();
+        let frame = FingerFrame::new(0.0, 0.065, 0.0).unwrap();
+        let palm = palm_body(&Palm::Disk { radius: 0.075, thickness: 0.012 }).unwrap();
+        let cases = [
+            (ObjectShape::Sphere { radius: 0.034 }, Vec3::new(0.0, 0.0, -0.075), 40.0),
+            (ObjectShape::Box { size: Vec3::new(0.12, 0.08, 0.05) }, Vec3::new(0.0, 0.0, -0.08), 40.0),
+            (ObjectShape::Cylinder { radius: 0.035, height: 0.09 }, Vec3::new(0.0, 0.0, -0.065), 30.0),
+        ];
+        for (shape, centre, kpa) in cases {
+            let obj = ObjectGeometry::new(&shape, centre).unwrap();
+            let obs = Obstacles { object: &obj, palm: &palm };
+            let p = kpa * 1e3;
+            let c = close_finger(0, &a, &rod, frame, SectionModel::WallPressure, p, &obs, None).unwrap();
+            assert_eq!(c.report.status, SolveStatus::Converged, "{shape:?}");
+            assert!(!c.contacts.is_empty(), "{shape:?}: touches");
+            // loads in the finger's plane: (arc length, point, force)
+            let mut loads: Vec<(f64, Vec2, Vec2)> = Vec::new();
+            for k in &c.contacts {
+                let piece = c
+                    .body
+                    .pieces
+                    .iter()
+                    .position(|q| match q.kind {
+                        PieceKind::Element(e) => e == k.element,
+                        PieceKind::Tip => k.element == rod.elements,
+                        PieceKind::Base => false,
+                    })
+                    .unwrap();
+                let (mp, _) = c.body.material_point(piece, k.point).unwrap();
+                let (x, _) = frame.to_plane(k.point);
+                let (f, _) = frame.plane_direction(-k.normal_force * k.normal);
+                loads.push((mp.s, x, f));
+            }
+            for w in weight_loads(&a, &rod, &frame) {
+                loads.push((w.point.s, rod.position(&c.angles, w.point).unwrap(), w.force));
+            }
+            let law = a.law(p, SectionModel::WallPressure);
+            let h = rod.element_length();
+            let kappas = rod.curvatures(&c.angles);
+            let mut pairs = Vec::new();
+            for (j, &kappa) in kappas.iter().enumerate() {
+                let s_mid = rod.base_length + h * (j as f64 + 0.5);
+                let x_mid = rod.position(&c.angles, MaterialPoint { s: s_mid, y: 0.0 }).unwrap();
+                // moment about the cut of the loads beyond it (2-D cross product in (u, w))
+                let beyond: f64 = loads
+                    .iter()
+                    .filter(|(s, _, _)| *s > s_mid)
+                    .map(|(_, x, f)| {
+                        let r = *x - x_mid;
+                        r.x * f.y - r.y * f.x
+                    })
+                    .sum();
+                pairs.push((law.moment(kappa).unwrap().0, beyond));
+            }
+            let scale = pairs.iter().map(|(m, _)| m.abs()).fold(0.0, f64::max);
+            assert!(scale > 0.0);
+            // the internal moment balances the distal loads: m = -(moment of the loads)
+            // in this sign convention (kappa > 0 toward +u, angles from +w toward +u)
+            for (j, (m, beyond)) in pairs.iter().enumerate() {
+                assert!(
+                    (m + beyond).abs() <= 0.02 * scale,
+                    "{shape:?}: element {j}: m = {m:.5e}, loads beyond give {beyond:.5e} (scale {scale:.3e})"
+                );
+            }
+        }
+    }
+
     /// One finger of the 3-finger demo closing on a 34 mm ball (closed forms of the
     /// sphere): the closing converges at every pressure, no body piece penetrates the
     /// ball by more than DESIGN 3.3's 0.01 mm, every contact lies on the sphere's surface

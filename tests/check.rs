@@ -242,3 +242,30 @@ fn robust_sample_counts_are_checked_before_the_check() {
     let run = arcfinger(&["check", &scene, "--seed", "3"]).expect_code(2);
     assert!(run.stderr.contains("--robust"), "{}", run.stderr);
 }
+
+/// An object that already overlaps the open fingers at its position does not fit into
+/// the gripper: it fails for that reason alone, with the depth of the overlap, and has
+/// no pressure window. A 70 mm ball on the axis against fingers whose inner face (the
+/// 1 mm under-layer below the reference line at the 65 mm mount radius) stands 64 mm
+/// from it: 6 mm deep (closed form of the geometry).
+#[test]
+fn an_object_wider_than_the_open_fingers_does_not_fit() {
+    let text = std::fs::read_to_string(repo("tests/data/check-ball-3f.ron")).unwrap();
+    assert!(text.contains("Sphere(radius_mm: 34.0)"));
+    let tmp = TempDir::new("does-not-fit");
+    let scene =
+        tmp.write("big-ball.ron", &text.replace("Sphere(radius_mm: 34.0)", "Sphere(radius_mm: 70.0)"));
+    let run = arcfinger(&["check", &scene.display().to_string(), "--json", "-"]).expect_code(1);
+    let doc: serde_json::Value = serde_json::from_str(&run.stdout).expect("JSON on stdout");
+    let ball = &doc["objects"][0];
+    assert_eq!(ball["verdict"], "fail");
+    assert_eq!(ball["pressure_window_kpa"], serde_json::Value::Null);
+    let failures = ball["failures"].as_array().unwrap();
+    assert_eq!(failures.len(), 1, "{failures:?}");
+    assert_eq!(failures[0]["kind"], "does-not-fit");
+    assert!(failures[0]["obstacle"].as_str().unwrap().starts_with("finger "));
+    let depth = failures[0]["depth_mm"].as_f64().unwrap();
+    assert!((depth - 6.0).abs() < 1e-6, "depth {depth} mm");
+    let reason = ball["reasons"][0].as_str().unwrap();
+    assert!(reason.contains("does not fit") && reason.contains("6.0 mm"), "{reason}");
+}

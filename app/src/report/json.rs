@@ -109,6 +109,7 @@ enum FailureDoc<'a> {
     Enclosure { got: Option<f64>, need: Option<f64> },
     Holding { case: &'a str, margin: Option<f64>, need: Option<f64> },
     ContactForce { peak_n: Option<f64>, limit_n: Option<f64>, excess_n: Option<f64> },
+    DoesNotFit { obstacle: &'a str, depth_mm: Option<f64> },
     Interference { pairs: Vec<[usize; 2]> },
     NotConverged { what: &'a str },
 }
@@ -123,6 +124,9 @@ impl<'a> FailureDoc<'a> {
             }
             Failure::ContactForce { peak, limit } => {
                 Self::ContactForce { peak_n: num(*peak), limit_n: num(*limit), excess_n: num(peak - limit) }
+            }
+            Failure::DoesNotFit { obstacle, depth } => {
+                Self::DoesNotFit { obstacle, depth_mm: num(depth * 1e3) }
             }
             Failure::Interference { pairs } => {
                 Self::Interference { pairs: pairs.iter().map(|&(a, b)| [a, b]).collect() }

@@ -256,6 +256,35 @@ fn holding(
     Ok(())
 }
 
+/// The deepest overlap (m, and with what) of the object at its position with the open
+/// fingers (straight, no pressure) and the palm, if deeper than
+/// [`INTERFERENCE_TOLERANCE`]: such an object cannot be brought into the gripper.
+fn open_overlap(
+    open: &[FingerBody],
+    palm: &(Pose, SharedShape),
+    geometry: &ObjectGeometry,
+) -> Result<Option<(String, f64)>, CheckError> {
+    let mut worst: Option<(String, f64)> = None;
+    let mut consider = |what: &dyn Fn() -> String, pose: &Pose, shape: &SharedShape| {
+        let c = query::contact(pose, shape.as_ref(), &geometry.pose, geometry.shape.as_ref(), 0.0)
+            .map_err(|_| CheckError::Geometry("unsupported shape pair in the fit test".into()))?;
+        if let Some(c) = c
+            && -c.dist > INTERFERENCE_TOLERANCE
+            && worst.as_ref().is_none_or(|(_, d)| -c.dist > *d)
+        {
+            worst = Some((what(), -c.dist));
+        }
+        Ok::<(), CheckError>(())
+    };
+    for (i, body) in open.iter().enumerate() {
+        for piece in &body.pieces {
+            consider(&|| format!("finger {i}"), &piece.pose, &piece.shape)?;
+        }
+    }
+    consider(&|| "the palm".to_string(), &palm.0, &palm.1)?;
+    Ok(worst)
+}
+
 /// Widest run of consecutive `true`s: `(first, last)` indices.
 fn widest_run(pass: &[bool]) -> Option<(usize, usize)> {
     let mut best: Option<(usize, usize)> = None;
@@ -336,11 +365,36 @@ pub fn check_scene(scene: &Scene, settings: &CheckSettings) -> Result<CheckRepor
         })
         .collect::<Result<_, _>>()?;
     let sweep: Vec<f64> = scene.criteria.sweep.map(|s| s.pressures()).unwrap_or_default();
+    let open: Vec<FingerBody> = rig
+        .frames
+        .iter()
+        .enumerate()
+        .map(|(i, frame)| {
+            FingerBody::new(&rig.rods[i], &vec![0.0; rig.rods[i].dofs()], &rig.actuator(i).section, *frame)
+                .map_err(|e| CheckError::Geometry(e.to_string()))
+        })
+        .collect::<Result<_, _>>()?;
     let per_object: Vec<Result<(ObjectReport, Vec<bool>), CheckError>> = scene
         .objects
         .par_iter()
         .zip(geometries.par_iter())
         .map(|(object, geometry)| {
+            if let Some((obstacle, depth)) = open_overlap(&open, &rig.palm, geometry)? {
+                // nothing to close on: the gripper cannot take it at any pressure
+                let report = ObjectReport {
+                    name: object.name.clone(),
+                    verdict: Verdict::Fail,
+                    failures: vec![Failure::DoesNotFit { obstacle, depth }],
+                    fingers_in_contact: 0,
+                    contacts: Vec::new(),
+                    enclosure: 0.0,
+                    epsilon: 0.0,
+                    holding: HoldingMargins { lift: 0.0, lateral_min: 0.0 },
+                    peak_contact_force: 0.0,
+                    pressure_window: None,
+                };
+                return Ok((report, vec![false; sweep.len()]));
+            }
             let mut report = evaluate(&rig, object, geometry, pressure, settings, None, Detail::Full)?.report;
             let mut passes = Vec::with_capacity(sweep.len());
             let mut starts: Option<Vec<(f64, Vec<f64>)>> = None;

@@ -69,6 +69,14 @@ pub enum Failure {
         /// The object's limit (N).
         limit: f64,
     },
+    /// With the fingers open (no pressure) the object already overlaps a finger or the
+    /// palm at its position: it does not fit into the gripper.
+    DoesNotFit {
+        /// What it overlaps: `"finger 2"` or `"the palm"`.
+        obstacle: String,
+        /// Depth of the deepest overlap (m).
+        depth: f64,
+    },
     /// Fingers interfere with each other.
     Interference {
         /// Pairs of finger indices.
@@ -90,6 +98,7 @@ impl Failure {
             Self::Enclosure { .. } => "enclosure",
             Self::Holding { .. } => "holding",
             Self::ContactForce { .. } => "contact-force",
+            Self::DoesNotFit { .. } => "does-not-fit",
             Self::Interference { .. } => "interference",
             Self::NotConverged { .. } => "not-converged",
         }
@@ -118,6 +127,11 @@ impl std::fmt::Display for Failure {
                     peak - limit
                 )
             }
+            Self::DoesNotFit { obstacle, depth } => write!(
+                f,
+                "does not fit: with the fingers open it overlaps {obstacle} by {:.1} mm",
+                depth * 1e3
+            ),
             Self::Interference { pairs } => {
                 let list: Vec<String> = pairs.iter().map(|(a, b)| format!("{a}-{b}")).collect();
                 write!(f, "fingers interfere: {}", list.join(", "))

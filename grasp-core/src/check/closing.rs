@@ -14,7 +14,15 @@
 //! contact set stops changing. Out-of-plane components of contact forces are carried by
 //! the finger's lateral stiffness, taken as rigid (DESIGN 3.3). A finger whose contact
 //! normal lies almost out of its plane (in-plane part below 5 %) cannot push that way and
-//! gets no gap there.
+//! gets no gap there. The section where the chamber leaves the hub is clamped and gets
+//! no gap (no angle moves it). Only body pieces whose bounding sphere comes within the
+//! prediction distance of an obstacle's box are built and queried.
+//!
+//! Step control: a pressure step that does not settle is halved. A solve that carries
+//! the body deeper into an obstacle than a quarter of the obstacle's smallest extent
+//! (a finger snapping past a limit point, through a thin palm, say) is retried at the
+//! same pressure with gaps against obstacles up to 4, 16, ... times farther (at most the
+//! finger's length), since the nearest face of a deep overlap may be the far one.
 //!
 //! Neighbouring fingers are not obstacles of each other in this stage: each finger closes
 //! against the object and the palm, and bodies of different fingers that intersect in the

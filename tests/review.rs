@@ -134,6 +134,17 @@ fn review_renders_in_headless_chromium_without_console_errors() {
     let (dom, _) = headless(&browser, tmp.path(), &page, &["--dump-dom"]);
     assert_eq!(dom.matches("<svg").count(), 2, "the window chart and the bend chart");
     assert!(dom.contains("id=\"verdicts\""));
+    // the candidate's picture: a PNG from the offscreen renderer in a viewer build (unless
+    // the machine has no Vulkan driver and CI does not require one), else the slot's note
+    let images = dom.matches("src=\"data:image/png;base64,iVBORw0KGgo").count();
+    let no_vulkan = dom.contains("No picture: no Vulkan adapter");
+    if cfg!(feature = "viewer") && !(no_vulkan && std::env::var_os("ARCFINGER_REQUIRE_VIEWER").is_none()) {
+        assert_eq!(images, 1, "one rendered picture per candidate");
+        assert!(dom.contains("holding \"ball\""), "the caption names the object");
+    } else {
+        assert_eq!(images, 0);
+        assert!(dom.contains("No picture: "), "the slot says why there is no picture");
+    }
     // the detector sees a broken page's error
     let broken = tmp.write(
         "broken.html",

@@ -23,3 +23,5 @@ mod hardening;
 mod sweep;
 // `arcfinger review`: one self-contained, well-formed HTML file with charts; Markdown summary; escaping.
 mod review;
+// `arcfinger render` and `view`: offscreen pictures checked against our own projection; builds without the viewer.
+mod render;

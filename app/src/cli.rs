@@ -39,6 +39,10 @@ pub enum Command {
     Merge(MergeArgs),
     /// Side-by-side review of 1 to 6 candidate grippers: an HTML report and a Markdown summary.
     Review(ReviewArgs),
+    /// 3-D viewer: the gripper at a pressure on each object, re-solved as you step the pressure.
+    View(ViewArgs),
+    /// Offscreen picture of the gripper holding an object (PNG, no window, no display).
+    Render(RenderArgs),
 }
 
 /// `arcfinger check`.
@@ -273,4 +277,61 @@ pub struct ReviewArgs {
     /// Rod elements along each chamber (>= 40).
     #[arg(long, value_name = "N", default_value_t = 40)]
     pub elements: usize,
+}
+
+/// `arcfinger view`.
+#[derive(Debug, Args)]
+pub struct ViewArgs {
+    /// Scene file (RON) [default: the bundled demo scene, packing-line-3f].
+    pub scene: Option<PathBuf>,
+    /// Start at this supply pressure (kPa) [default: the scene's].
+    #[arg(long, value_name = "KPA", allow_negative_numbers = true)]
+    pub pressure: Option<f64>,
+    /// Start on this object [default: the first].
+    #[arg(long, value_name = "NAME")]
+    pub object: Option<String>,
+    /// Rod elements along each chamber (>= 40).
+    #[arg(long, value_name = "N", default_value_t = 40)]
+    pub elements: usize,
+    /// Let the scene read mesh files outside its own folder (absolute paths, `..`).
+    #[arg(long)]
+    pub allow_outside_meshes: bool,
+    /// Steps to play after the first frame, comma-separated (for tests and measurements):
+    /// `up`, `down`, `next`, `prev`, `forces`, `fibers`, `set`, `shadows`, `msaa`,
+    /// `reset`, `orbit:N` (N frames of a full turn, frames/s on stderr), `idle:SECONDS`
+    /// (after the sweep, CPU time while nothing changes), `shot:FILE.png`, `quit`.
+    #[arg(long, value_name = "STEPS", hide = true)]
+    pub script: Option<String>,
+}
+
+/// `arcfinger render`.
+#[derive(Debug, Args)]
+pub struct RenderArgs {
+    /// Scene file (RON).
+    pub scene: PathBuf,
+    /// The PNG to write; with `--object all`, one file per object named
+    /// `STEM-<number>-<object>.png` beside it.
+    #[arg(long, value_name = "FILE.png")]
+    pub out: PathBuf,
+    /// Supply pressure (kPa) [default: the scene's].
+    #[arg(long, value_name = "KPA", allow_negative_numbers = true)]
+    pub pressure: Option<f64>,
+    /// The object held, or `all` for one picture per object [default: the first].
+    #[arg(long, value_name = "NAME|all")]
+    pub object: Option<String>,
+    /// Picture size in pixels.
+    #[arg(long, value_name = "WxH", default_value = "1024x768")]
+    pub size: String,
+    /// Where the camera looks from: front, side, top or iso.
+    #[arg(long, value_name = "VIEW", default_value = "iso")]
+    pub view: String,
+    /// Write the pictures' cameras and files as JSON to FILE (`-` = stdout).
+    #[arg(long, value_name = "FILE")]
+    pub json: Option<String>,
+    /// Rod elements along each chamber (>= 40).
+    #[arg(long, value_name = "N", default_value_t = 40)]
+    pub elements: usize,
+    /// Let the scene read mesh files outside its own folder (absolute paths, `..`).
+    #[arg(long)]
+    pub allow_outside_meshes: bool,
 }

@@ -18,6 +18,8 @@ mod report;
 mod scene_doc;
 mod scene_file;
 mod suggest;
+#[cfg(feature = "viewer")]
+mod viewer;
 
 use std::process::ExitCode;
 
@@ -57,5 +59,7 @@ fn run(opts: cli::Opts) -> Result<Outcome, AppError> {
         cli::Command::Sweep(args) => commands::sweep::run(args),
         cli::Command::Merge(args) => commands::merge::run(args),
         cli::Command::Review(args) => commands::review::run(args),
+        cli::Command::View(args) => commands::view::run(args),
+        cli::Command::Render(args) => commands::render::run(args),
     }
 }

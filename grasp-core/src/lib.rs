@@ -19,6 +19,7 @@
 //! - [`geometry`]: the hub layout, object shapes and finger bodies as parry3d shapes.
 //! - [`grasp`]: grasp criteria at a pressure: enclosure, holding margins, epsilon quality.
 //! - [`check`]: the grasp check of a whole scene, with verdicts and pressure windows.
+//! - [`draw`]: triangle surfaces of palm, fingers (with their fiber), objects and arrows, for a renderer.
 //! - [`calibrate`]: fit a modulus scale (and floor thickness) to a measured prototype.
 //! - [`fab`]: the fabrication sheet of an actuator (molds, silicone, fiber) and its wrap-pitch check.
 //! - [`sweep`]: layout search: search spaces, candidates, ranking, Pareto front, shards.
@@ -27,6 +28,7 @@
 pub mod actuator;
 pub mod calibrate;
 pub mod check;
+pub mod draw;
 pub mod fab;
 pub mod geometry;
 pub mod grasp;

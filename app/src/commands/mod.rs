@@ -8,5 +8,7 @@ pub mod fab;
 pub mod fit;
 pub mod materials;
 pub mod merge;
+pub mod render;
 pub mod review;
 pub mod sweep;
+pub mod view;

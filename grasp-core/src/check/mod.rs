@@ -12,8 +12,10 @@
 pub mod closing;
 mod evaluate;
 pub mod robust;
+mod single;
 
 pub use evaluate::{INTERFERENCE_TOLERANCE, check_scene};
+pub use single::{ObjectAtPressure, check_object};
 
 use crate::math::Vec3;
 

@@ -13,8 +13,8 @@ const STYLE: &str = "body{font-family:sans-serif;margin:2em;max-width:1200px;col
 table{border-collapse:collapse;margin:1em 0}td,th{border:1px solid #bbb;padding:4px 8px;text-align:left}\
 th{background:#f2f2f2}.pass{color:#0072b2;font-weight:bold}.fail{color:#d55e00;font-weight:bold}\
 .unknown{color:#cc79a7;font-weight:bold}.cards{display:flex;flex-wrap:wrap;gap:1em}\
-.card{border:1px solid #bbb;padding:1em;width:340px}.picture{width:320px;height:240px;background:#f6f6f6;\
-display:flex;align-items:center;justify-content:center;text-align:center;color:#666;font-size:90%}\
+.card{border:1px solid #bbb;padding:1em;width:340px}.picture{width:320px;min-height:240px;background:#f6f6f6;\
+display:flex;flex-direction:column;align-items:center;justify-content:center;text-align:center;color:#666;font-size:90%}\
 .picture img{max-width:320px;max-height:240px}.chart svg{width:380px;height:auto}.caution{border-left:4px solid #d55e00;padding-left:1em}";
 
 fn status_cell(st: Status) -> String {
@@ -61,11 +61,13 @@ pub fn page(cands: &[Candidate]) -> Result<String, AppError> {
         actuators.dedup();
         let picture = match &c.picture {
             Some(png) => format!(
-                "<img alt=\"{} holding its objects\" src=\"data:image/png;base64,{}\"/>",
+                "<img alt=\"{}: {}\" src=\"data:image/png;base64,{}\"/><br/>{}",
                 esc(&c.report.scene),
-                base64(png)
+                esc(&c.picture_note),
+                base64(png),
+                esc(&c.picture_note)
             ),
-            None => "No picture: the offscreen renderer is not part of this build.".to_string(),
+            None => esc(&c.picture_note),
         };
         let _ = write!(
             s,

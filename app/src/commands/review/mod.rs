@@ -7,9 +7,11 @@
 //! a pressure-window chart across objects and candidates, the bend and blocked-force
 //! curves of each actuator the candidate uses, the margins, and the cautions.
 //!
-//! Pictures: the slot takes a PNG of the candidate at its recommended pressure, inlined
-//! as a `data:` URI ([`Candidate::picture`]). No offscreen renderer is part of this build
-//! yet, so every slot says so; the layout stays the same when pictures come.
+//! Pictures: the slot takes a PNG of the candidate at its recommended pressure (the
+//! scene's pressure when it has none) holding its worst object, inlined as a `data:` URI
+//! ([`Candidate::picture`]), drawn by the offscreen renderer when the build has the
+//! `viewer` feature ([`pictures`]). Without it, or without a Vulkan adapter, the slot
+//! says why ([`Candidate::picture_note`]); the layout stays the same.
 //! A fabrication summary is likewise announced as not available.
 //!
 //! Exit codes: 0 when some candidate passes every object, 1 when none does, 3 when a
@@ -50,7 +52,75 @@ pub struct Candidate {
     pub bends: Vec<BendDoc>,
     /// A PNG picture of the candidate holding its objects, when a renderer provides one.
     pub picture: Option<Vec<u8>>,
+    /// What the picture shows, or why there is none.
+    pub picture_note: String,
 }
+
+/// The slot's text in a build without the renderer.
+pub const NO_RENDERER: &str = "No picture: the offscreen renderer is not part of this build \
+    (build with --features viewer).";
+
+/// Picture size in the report (pixels).
+pub const PICTURE_SIZE: (u32, u32) = (640, 480);
+
+/// The object a candidate's picture shows: the first that fails, else the one with the
+/// smallest holding margin (lift or lateral).
+pub fn worst_object(report: &CheckReport) -> usize {
+    if let Some(k) = report.objects.iter().position(|o| o.verdict == grasp_core::check::Verdict::Fail) {
+        return k;
+    }
+    let margin = |o: &grasp_core::check::ObjectReport| o.holding.lift.min(o.holding.lateral_min);
+    (0..report.objects.len())
+        .min_by(|&a, &b| margin(&report.objects[a]).total_cmp(&margin(&report.objects[b])))
+        .unwrap_or(0)
+}
+
+/// Fills the picture slots: each candidate at its recommended pressure (else its
+/// scene's) holding [`worst_object`], from the offscreen renderer, all in one renderer.
+#[cfg(feature = "viewer")]
+fn pictures(cands: &mut [Candidate], elements: usize) {
+    use crate::viewer::framing::View;
+    use crate::viewer::offscreen::{Shot, render};
+    let shots: Vec<Shot> = cands
+        .iter()
+        .enumerate()
+        .filter(|(_, c)| !c.scene.objects.is_empty())
+        .map(|(k, c)| Shot {
+            scene: k,
+            object: worst_object(&c.report),
+            pressure: c.report.recommended_pressure.unwrap_or(c.scene.criteria.pressure),
+            view: View::Iso,
+        })
+        .collect();
+    if shots.is_empty() {
+        return;
+    }
+    let scenes: Vec<&Scene> = cands.iter().map(|c| &c.scene).collect();
+    let settings = CheckSettings { elements, ..CheckSettings::default() };
+    match render(&scenes, &settings, &shots, PICTURE_SIZE) {
+        Ok(pics) => {
+            for (shot, pic) in shots.iter().zip(pics) {
+                let c = &mut cands[shot.scene];
+                c.picture_note = format!(
+                    "At {:.1} kPa holding \"{}\" ({}).",
+                    shot.pressure * 1e-3,
+                    c.scene.objects[shot.object].name,
+                    pic.verdict
+                );
+                c.picture = Some(pic.png);
+            }
+        }
+        Err(e) => {
+            eprintln!("arcfinger: warning: no pictures in the review: {e}");
+            for c in cands.iter_mut() {
+                c.picture_note = format!("No picture: {e}");
+            }
+        }
+    }
+}
+
+#[cfg(not(feature = "viewer"))]
+fn pictures(_cands: &mut [Candidate], _elements: usize) {}
 
 impl Candidate {
     /// Overall status of its check.
@@ -115,8 +185,16 @@ pub fn run(args: ReviewArgs) -> Result<Outcome, AppError> {
     for (path, scene) in loaded {
         let report = grasp_core::check::check_scene(&scene, &settings)?;
         let bends = bends(&scene, args.elements.max(MIN_ELEMENTS))?;
-        cands.push(Candidate { file: path.display().to_string(), scene, report, bends, picture: None });
+        cands.push(Candidate {
+            file: path.display().to_string(),
+            scene,
+            report,
+            bends,
+            picture: None,
+            picture_note: NO_RENDERER.to_string(),
+        });
     }
+    pictures(&mut cands, args.elements);
     let page = html::page(&cands)?;
     let summary = markdown::summary(&cands);
     std::fs::create_dir_all(&dir).map_err(|e| AppError::io(format!("creating {}", dir.display()), e))?;

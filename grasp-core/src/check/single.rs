@@ -1,0 +1,137 @@
+//! One object at one pressure, with the fingers as they close on it: what an
+//! interactive viewer shows after a pressure step.
+//!
+//! The report is the grasp check's own: [`check_scene`] on the scene reduced to that
+//! object, at that pressure, with no sweep, so every number equals what `check` reports
+//! for the object at that pressure. The closed shapes come from the closing stage called
+//! exactly as the check calls it at the supply pressure (each finger from open, against
+//! the object and the palm). The closing therefore runs twice; the check does not hand
+//! out its closed fingers.
+
+use super::closing::{ClosedFinger, Obstacles, close_finger};
+use super::{CheckError, CheckSettings, Failure, FingerReport, ObjectReport, check_scene};
+use crate::geometry::{FingerFrame, ObjectGeometry, palm_body};
+use crate::rod::Rod;
+use crate::scene::Scene;
+
+/// One object at one pressure.
+#[derive(Debug, Clone)]
+pub struct ObjectAtPressure {
+    /// Supply pressure (Pa).
+    pub pressure: f64,
+    /// The object's report, as the check gives it at this pressure (no pressure window:
+    /// that needs the sweep).
+    pub report: ObjectReport,
+    /// The free fingers at this pressure (bend, tip, interference of the free bodies).
+    pub fingers: Vec<FingerReport>,
+    /// Each finger's element-end angles closed on the object (rad); the open, straight
+    /// finger (all zero) when the object does not fit into the open gripper.
+    pub closed_angles: Vec<Vec<f64>>,
+}
+
+/// Evaluates object number `object` of `scene` at supply pressure `pressure` (Pa).
+///
+/// # Errors
+/// An object index out of range, and everything [`check_scene`] refuses.
+pub fn check_object(
+    scene: &Scene,
+    object: usize,
+    pressure: f64,
+    settings: &CheckSettings,
+) -> Result<ObjectAtPressure, CheckError> {
+    let target = scene.objects.get(object).ok_or_else(|| {
+        CheckError::BadSetting(format!("object {object}: the scene has {} objects", scene.objects.len()))
+    })?;
+    let mut one = scene.clone();
+    one.objects = vec![target.clone()];
+    one.criteria.sweep = None;
+    let settings = CheckSettings { pressure_override: Some(pressure), ..*settings };
+    let mut checked = check_scene(&one, &settings)?;
+    let report = checked.objects.remove(0);
+    let geo = |e: &dyn std::fmt::Display| CheckError::Geometry(e.to_string());
+    let does_not_fit = report.failures.iter().any(|f| matches!(f, Failure::DoesNotFit { .. }));
+    let geometry = ObjectGeometry::of_object(target).map_err(|e| geo(&e))?;
+    let palm = palm_body(&scene.gripper.palm).map_err(|e| geo(&e))?;
+    let obstacles = Obstacles { object: &geometry, palm: &palm };
+    let mut closed_angles = Vec::with_capacity(scene.gripper.fingers.len());
+    for (i, mount) in scene.gripper.fingers.iter().enumerate() {
+        let actuator = &scene.actuators[mount.actuator];
+        let rod = Rod::of_actuator(actuator, settings.elements).map_err(|e| geo(&e))?;
+        if does_not_fit {
+            closed_angles.push(vec![0.0; rod.dofs()]);
+            continue;
+        }
+        let frame = FingerFrame::of_mount(mount).map_err(|e| geo(&e))?;
+        let c: ClosedFinger =
+            close_finger(i, actuator, &rod, frame, actuator.section_model, pressure, &obstacles, None)
+                .map_err(CheckError::Geometry)?;
+        closed_angles.push(c.angles);
+    }
+    Ok(ObjectAtPressure { pressure, report, fingers: checked.fingers, closed_angles })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::actuator::Actuator;
+    use crate::math::Vec3;
+    use crate::scene::{Criteria, FingerMount, Gripper, ObjectShape, Palm, TargetObject};
+
+    /// Two opposed example fingers, a 25 mm ball they reach and a box too wide to fit.
+    fn demo_scene() -> Scene {
+        let finger = |az: f64| FingerMount { actuator: 0, azimuth: az, radius: 0.03, tilt: 0.0 };
+        let object = |name: &str, shape| TargetObject {
+            name: name.into(),
+            shape,
+            mass: 0.01,
+            friction: 0.8,
+            position: Vec3::new(0.0, 0.0, -0.07),
+            max_contact_force: None,
+        };
+        Scene {
+            name: "single-test".into(),
+            materials: Vec::new(),
+            actuators: vec![Actuator::example()],
+            gripper: Gripper {
+                palm: Palm::Disk { radius: 0.04, thickness: 0.01 },
+                fingers: vec![finger(0.0), finger(std::f64::consts::PI)],
+            },
+            objects: vec![
+                object("ball", ObjectShape::Sphere { radius: 0.0125 }),
+                object("wide box", ObjectShape::Box { size: Vec3::new(0.08, 0.02, 0.02) }),
+            ],
+            criteria: Criteria {
+                pressure: 20e3,
+                sweep: None,
+                safety_factor: 1.5,
+                lift_accel: 2.0,
+                lateral_accel: 1.0,
+                min_fingers_in_contact: 2,
+                min_enclosure: 0.2,
+            },
+        }
+    }
+
+    #[test]
+    fn one_object_reports_what_the_whole_check_reports() {
+        let scene = demo_scene();
+        let settings = CheckSettings::default();
+        let whole = check_scene(&scene, &settings).unwrap();
+        for (k, o) in whole.objects.iter().enumerate() {
+            let one = check_object(&scene, k, scene.criteria.pressure, &settings).unwrap();
+            let mut expected = o.clone();
+            expected.pressure_window = None;
+            assert_eq!(one.report, expected, "object {}", o.name);
+            assert_eq!(one.fingers, whole.fingers);
+            assert_eq!(one.closed_angles.len(), scene.gripper.fingers.len());
+        }
+        // the ball is touched (the closed fingers are bent), the box does not fit (open)
+        let ball = check_object(&scene, 0, scene.criteria.pressure, &settings).unwrap();
+        assert!(ball.report.fingers_in_contact > 0);
+        assert!(ball.closed_angles.iter().all(|a| a.iter().any(|x| x.abs() > 1e-3)));
+        let wide = check_object(&scene, 1, scene.criteria.pressure, &settings).unwrap();
+        assert_eq!(wide.report.failures[0].kind(), "does-not-fit");
+        assert!(wide.closed_angles.iter().all(|a| a.iter().all(|x| *x == 0.0)));
+        assert!(check_object(&scene, 99, 1e4, &settings).is_err());
+    }
+}

@@ -139,7 +139,7 @@ fn camera_actions(
 }
 
 /// Moves the camera when its orbit changed.
-fn place_camera(mut cams: Query<(&Orbit, &mut Transform), (Changed<Orbit>, With<Camera3d>)>) {
+fn place_camera(mut cams: Query<(&Orbit, &mut Transform), Changed<Orbit>>) {
     for (o, mut t) in &mut cams {
         *t = o.transform();
     }

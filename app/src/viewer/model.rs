@@ -27,6 +27,12 @@ const ARROW_RADIUS: f64 = 6e-4;
 /// Radius of a contact point's marker (m).
 const MARKER_RADIUS: f64 = 1.2e-3;
 
+/// Pressure windows per object (Pa): the widest passing range of each, if any.
+pub type Windows = Vec<Option<(f64, f64)>>;
+
+/// What the sweep thread hands in: the windows and the recommended pressure (Pa).
+pub type SweepOutcome = Result<(Windows, Option<f64>), String>;
+
 /// What a drawn part stands for (it decides the colour).
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
 pub enum Role {
@@ -94,7 +100,7 @@ pub struct ViewState {
     /// Wall time of the last solve.
     pub solve_time: Duration,
     /// Pressure windows per object (Pa) from the whole check; `None` while computing.
-    pub windows: Option<Result<Vec<Option<(f64, f64)>>, String>>,
+    pub windows: Option<Result<Windows, String>>,
     /// Recommended pressure of the whole check (Pa), once known.
     pub recommended: Option<f64>,
     /// What else is drawn.
@@ -170,7 +176,7 @@ impl ViewState {
     }
 
     /// Hands in the pressure windows of the whole check.
-    pub fn set_windows(&mut self, windows: Result<(Vec<Option<(f64, f64)>>, Option<f64>), String>) {
+    pub fn set_windows(&mut self, windows: SweepOutcome) {
         match windows {
             Ok((w, rec)) => {
                 self.windows = Some(Ok(w));

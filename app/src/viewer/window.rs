@@ -24,7 +24,7 @@ use grasp_core::check::{CheckSettings, check_scene};
 
 use super::camera::{Orbit, projection};
 use super::framing::{self, View};
-use super::model::ViewState;
+use super::model::{SweepOutcome, ViewState};
 use super::scene::{Action, Model, SceneSystems};
 use super::{ViewerPlugins, probe};
 use crate::commands::view::ViewConfig;
@@ -123,10 +123,8 @@ fn process_cpu_seconds() -> Option<f64> {
 }
 
 /// The pressure windows of the whole check, once the thread has them.
-type SweepResult = Result<(Vec<Option<(f64, f64)>>, Option<f64>), String>;
-
 #[derive(Resource, Clone, Default)]
-struct Sweep(Arc<Mutex<Option<SweepResult>>>);
+struct Sweep(Arc<Mutex<Option<SweepOutcome>>>);
 
 /// Reactive redraw: only on input and window events (and wake-ups from the thread).
 fn reactive() -> WinitSettings {

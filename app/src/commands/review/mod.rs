@@ -61,10 +61,12 @@ pub const NO_RENDERER: &str = "No picture: the offscreen renderer is not part of
     (build with --features viewer).";
 
 /// Picture size in the report (pixels).
+#[cfg(feature = "viewer")]
 pub const PICTURE_SIZE: (u32, u32) = (640, 480);
 
 /// The object a candidate's picture shows: the first that fails, else the one with the
 /// smallest holding margin (lift or lateral).
+#[cfg(feature = "viewer")]
 pub fn worst_object(report: &CheckReport) -> usize {
     if let Some(k) = report.objects.iter().position(|o| o.verdict == grasp_core::check::Verdict::Fail) {
         return k;

@@ -36,13 +36,22 @@ impl PointHull {
         if !(extent > 0.0) {
             return None;
         }
-        // a volume: some point off the plane of the first three non-collinear points
+        // a volume: some point off the plane through p0, the farthest point from it and
+        // the point farthest from that line (one pass each, no square roots)
         let p0 = points[0];
-        let far = *points.iter().max_by(|a, b| (**a - p0).length().total_cmp(&(**b - p0).length()))?;
-        let normal = points
-            .iter()
-            .map(|p| (far - p0).cross(*p - p0))
-            .max_by(|a, b| a.length().total_cmp(&b.length()))?;
+        let mut far = p0;
+        for p in &points {
+            if (*p - p0).length_squared() > (far - p0).length_squared() {
+                far = *p;
+            }
+        }
+        let mut normal = Vector::ZERO;
+        for p in &points {
+            let c = (far - p0).cross(*p - p0);
+            if c.length_squared() > normal.length_squared() {
+                normal = c;
+            }
+        }
         if !(normal.length() > 1e-9 * extent * extent) {
             return None;
         }

@@ -218,7 +218,8 @@ fn local_shape(shape: &ObjectShape) -> Result<(SharedShape, Pose, Option<SharedS
             if pts.iter().any(|p| !p.is_finite()) {
                 return Err(GeometryError::NonFinite { what: "mesh vertex" });
             }
-            let hull = SharedShape::convex_hull(&pts).ok_or(GeometryError::Hull { what: "mesh" })?;
+            let hull =
+                SharedShape::new(super::MeshHull::new(&pts).ok_or(GeometryError::Hull { what: "mesh" })?);
             // parry returns a flat hull for coplanar points: refuse what spans no volume
             let extent = hull.compute_local_aabb().extents();
             if !(hull.mass_properties(1.0).mass() > 1e-9 * extent.max_element().powi(3)) {

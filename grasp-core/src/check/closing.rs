@@ -265,6 +265,8 @@ fn settle(
     let near = obstacles.near(prediction);
     // (piece, on the object, force, active) of the previous step
     let mut previous: Vec<(PieceKind, bool, f64, bool)> = Vec::new();
+    let mut previous_step: Option<Vec<f64>> = None;
+    let mut max_move = 0.5 * prediction;
     for _ in 0..MAX_STEPS {
         report.iterations += 1;
         let body = FingerBody::new_where(rod, &angles, &actuator.section, frame, &near)
@@ -297,8 +299,24 @@ fn settle(
         {
             return Ok(Settle::Settled(StepResult { angles, lin, forces: step.forces, penetration }));
         }
+        // a step that turns back on the previous one (the contact switching between two
+        // pieces, each linearisation sending the finger toward the other) halves the
+        // move allowed; steps taken whole let it grow back to half the prediction
         let mut d = step.step;
-        limit_step(rod, &angles, &mut d, 0.5 * prediction);
+        let turns_back = previous_step.as_ref().is_some_and(|q: &Vec<f64>| {
+            let dot: f64 = q.iter().zip(&d).map(|(a, b)| a * b).sum();
+            let norms =
+                q.iter().map(|v| v * v).sum::<f64>().sqrt() * d.iter().map(|v| v * v).sum::<f64>().sqrt();
+            dot < -0.3 * norms
+        });
+        if turns_back {
+            max_move *= 0.5;
+        }
+        let alpha = limit_step(rod, &angles, &mut d, max_move);
+        if alpha >= 1.0 && !turns_back {
+            max_move = (2.0 * max_move).min(0.5 * prediction);
+        }
+        previous_step = Some(d.clone());
         for (a, v) in angles.iter_mut().zip(&d) {
             *a += v;
         }

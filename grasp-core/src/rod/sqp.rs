@@ -63,6 +63,15 @@ impl Tridiagonal {
     /// Factors `H` (`diagonal`, `upper`) plus `shift` on the diagonal; `None` unless every
     /// pivot is positive beyond round-off.
     fn factor(diagonal: &[f64], upper: &[f64], shift: f64) -> Option<Self> {
+        Self::factor_with(diagonal, upper, shift, true)
+    }
+
+    /// Factors an indefinite `H`: `None` only if a pivot vanishes (to round-off).
+    fn factor_indefinite(diagonal: &[f64], upper: &[f64]) -> Option<Self> {
+        Self::factor_with(diagonal, upper, 0.0, false)
+    }
+
+    fn factor_with(diagonal: &[f64], upper: &[f64], shift: f64, definite: bool) -> Option<Self> {
         let n = diagonal.len();
         let scale = diagonal.iter().fold(0.0f64, |a, v| a.max(v.abs())).max(f64::MIN_POSITIVE);
         let mut d = Vec::with_capacity(n);
@@ -72,7 +81,8 @@ impl Tridiagonal {
             if k > 0 {
                 dk -= lower[k - 1] * upper[k - 1];
             }
-            if !(dk > 1e-12 * scale) {
+            let ok = if definite { dk > 1e-12 * scale } else { dk.abs() > 1e-12 * scale };
+            if !ok {
                 return None;
             }
             d.push(dk);
@@ -264,22 +274,97 @@ pub fn contact_step(
         Some(s) => s.to_vec(),
         None => values.iter().map(|&g| g <= GAP_TOLERANCE).collect(),
     };
-    let (forces, active) = complementarity(&mm, &q, &seed)
+    let (mut forces, active) = complementarity(&mm, &q, &seed)
         .ok_or(RodError::BadInput("the contact program has no solution (degenerate contacts)"))?;
-    // d = -H^-1 (r - G^T f) = -y + X f; residual r - G^T f at the current angles
+    // d = -H^-1 (r - G^T f) = -y + X f
     let mut step: Vec<f64> = y.iter().map(|v| -v).collect();
-    let mut stationarity = tangent.gradient.clone();
     for (c, &f) in forces.iter().enumerate() {
         if f != 0.0 {
             for k in 0..nd {
                 step[k] += columns[c][k] * f;
-                stationarity[k] -= rows[c][k] * f;
             }
+        }
+    }
+    // with a shifted Hessian the step above only descends; on its active set, the
+    // exact Hessian's Newton step converges quadratically where it is a minimum's
+    if regularised
+        && let Some((f, d)) = exact_step(&diagonal, &upper, &tangent.gradient, &rows, &values, &active)
+    {
+        forces = f;
+        step = d;
+    }
+    // residual r - G^T f at the current angles
+    let mut stationarity = tangent.gradient.clone();
+    for (c, &f) in forces.iter().enumerate() {
+        for k in 0..nd {
+            stationarity[k] -= rows[c][k] * f;
         }
     }
     let scale = moment_scale(rod, law, loads, &forces)?;
     let residual = stationarity.iter().fold(0.0f64, |a, v| a.max(v.abs())) / scale;
     Ok(ContactStep { step, forces, active, residual, gaps: values, regularised })
+}
+
+/// The Newton step of the program with the gaps of `active` held closed as equalities,
+/// with the exact Hessian `H` (tridiagonal, possibly indefinite): `(f_A, d)` from
+/// `S f_A = G_A H^-1 r - g_A`, `S = G_A H^-1 G_A^T`, `d = H^-1 (G_A^T f_A - r)`.
+/// Accepted only if it is a minimum's step — the KKT matrix has `n` positive and `k`
+/// negative eigenvalues, i.e. `S` has as many negative eigenvalues as `H` (Haynsworth's
+/// inertia additivity; the inertia test of Nocedal & Wright 2006, section 16.2) — with
+/// compressive forces and no inactive gap crossed; `None` otherwise.
+fn exact_step(
+    diagonal: &[f64],
+    upper: &[f64],
+    gradient: &[f64],
+    rows: &[Vec<f64>],
+    values: &[f64],
+    active: &[bool],
+) -> Option<(Vec<f64>, Vec<f64>)> {
+    let factor = Tridiagonal::factor_indefinite(diagonal, upper)?;
+    let negative = factor.d.iter().filter(|p| **p < 0.0).count();
+    let idx: Vec<usize> = (0..active.len()).filter(|&i| active[i]).collect();
+    let dot = |a: &[f64], b: &[f64]| a.iter().zip(b).map(|(x, z)| x * z).sum::<f64>();
+    let mut y = gradient.to_vec();
+    factor.solve(&mut y);
+    let cols: Vec<Vec<f64>> = idx
+        .iter()
+        .map(|&c| {
+            let mut v = rows[c].clone();
+            factor.solve(&mut v);
+            v
+        })
+        .collect();
+    let k = idx.len();
+    let mut forces = vec![0.0; values.len()];
+    let mut step: Vec<f64> = y.iter().map(|v| -v).collect();
+    if k == 0 {
+        if negative > 0 {
+            return None;
+        }
+    } else {
+        let s = nalgebra::DMatrix::from_fn(k, k, |a, b| {
+            0.5 * (dot(&rows[idx[a]], &cols[b]) + dot(&rows[idx[b]], &cols[a]))
+        });
+        let negative_s = s.clone().symmetric_eigenvalues().iter().filter(|e| **e < 0.0).count();
+        if negative_s != negative {
+            return None;
+        }
+        let rhs = nalgebra::DVector::from_fn(k, |a, _| dot(&rows[idx[a]], &y) - values[idx[a]]);
+        let f_a = s.lu().solve(&rhs)?;
+        let f_max = f_a.iter().fold(0.0f64, |m, v| m.max(v.abs()));
+        if f_a.iter().any(|f| !f.is_finite() || *f < -1e-12 * f_max) {
+            return None;
+        }
+        for (a, &c) in idx.iter().enumerate() {
+            forces[c] = f_a[a].max(0.0);
+            for (d, x) in step.iter_mut().zip(&cols[a]) {
+                *d += x * f_a[a];
+            }
+        }
+    }
+    let crossed =
+        (0..values.len()).any(|i| !active[i] && values[i] + dot(&rows[i], &step) < -1e-3 * GAP_TOLERANCE);
+    (!crossed && step.iter().all(|v| v.is_finite())).then_some((forces, step))
 }
 
 /// Limits a step so that no angle changes by more than [`MAX_STEP_RAD`] and no node of

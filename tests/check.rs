@@ -96,8 +96,8 @@ fn outputs_that_are_inputs_or_collide_are_refused() {
     assert_eq!(std::fs::read_dir(tmp.path()).unwrap().count(), 0, "nothing written");
 }
 
-/// `check` on the three-finger demo gripper around one centred ball (tests/data): the
-/// JSON has the keys of DESIGN 4.3; the gripper is symmetric under rotations of 120°
+/// `check` on the earlier three-finger demo gripper (its soft fingers kept as test data) around one centred
+/// ball (tests/data): the JSON has the keys of DESIGN 4.3; the gripper is symmetric under rotations of 120°
 /// about z and so is the ball, so every finger touches and the three contacts carry the
 /// same normal force and sit at the same height (symmetry, no reference needed); contacts
 /// lie on the sphere with unit normals along the radius into it; and the verdict agrees

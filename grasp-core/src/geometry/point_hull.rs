@@ -62,6 +62,18 @@ impl PointHull {
         Some(Self { points, aabb })
     }
 
+    /// The hull of `points` known to span a volume (a finger piece: two non-degenerate
+    /// section outlines a positive element length apart), skipping the volume test of
+    /// [`Self::new`] (the pieces are rebuilt at every step of a closing); `None` for
+    /// fewer than 4 points or a non-finite one.
+    pub fn of_volume(points: Vec<Vector>) -> Option<Self> {
+        if points.len() < 4 || points.iter().any(|p| !p.is_finite()) {
+            return None;
+        }
+        let aabb = Aabb::from_points(points.iter().copied());
+        Some(Self { points, aabb })
+    }
+
     /// The points (local coordinates).
     pub fn points(&self) -> &[Vector] {
         &self.points

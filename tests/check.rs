@@ -335,8 +335,8 @@ fn bundled_demo_fails_only_the_heavy_jar_and_on_holding() {
 /// The four-finger demo at its 100 kPa supply (checked without its sweep, for speed):
 /// seven objects pass; three fail, each for its own physical reason. The honey jar is
 /// too heavy (holding margin alone, at the Coulomb bound of its side contacts); the
-/// cherry tomato is too small (the fingers curl shut above it: every free fingertip ends
-/// above its top, so no finger reaches it); the ripe fig is too fragile (its only failure
+/// cherry tomato is too small (fingers that reach it run into each other, see below); the
+/// ripe fig is too fragile (its only failure
 /// is the contact force, above its 1.5 N bruising limit).
 #[test]
 fn four_finger_demo_fails_the_heavy_the_small_and_the_fragile() {

@@ -264,7 +264,7 @@ fn evaluate(
             failures.push(Failure::Enclosure { got: report.enclosure, need: criteria.min_enclosure });
         }
     }
-    if detail == Detail::Full && !grasp_contacts.is_empty() {
+    if detail == Detail::Full && settings.epsilon && !grasp_contacts.is_empty() {
         report.epsilon = grasp::epsilon_quality(
             &grasp_contacts,
             object.position,

@@ -12,7 +12,7 @@ fn json(run: &crate::util::Run) -> serde_json::Value {
 fn every_demo_actuator_gives_table_json_and_plot() {
     let tmp = TempDir::new("bend-demo");
     for (scene, actuator) in
-        [("scenes/packing-line-3f.ron", "box-100"), ("scenes/packing-line-4f.ron", "round-90")]
+        [("scenes/packing-line-3f.ron", "box-100"), ("scenes/packing-line-4f.ron", "round-100")]
     {
         let svg = tmp.path().join(format!("{actuator}.svg"));
         let table = arcfinger(&[
@@ -90,7 +90,7 @@ fn baseline_model_bends_less_than_the_wall_pressure_refinement() {
 fn usage_errors_exit_2_and_say_what_is_expected() {
     for (args, needle) in [
         (vec!["bend", "scenes/packing-line-3f.ron", "--actuator", "box-10"], "did you mean \"box-100\""),
-        (vec!["bend", "scenes/packing-line-3f.ron", "--pressures", "0:90:5"], "above the rated maximum"),
+        (vec!["bend", "scenes/packing-line-3f.ron", "--pressures", "0:160:5"], "above the rated maximum"),
         (vec!["bend", "scenes/packing-line-3f.ron", "--pressures", "0:40"], "FROM:TO:STEP"),
         (vec!["bend", "scenes/packing-line-3f.ron", "--elements", "10"], "between 40 and"),
         (vec!["bend", "scenes/missing.ron"], "missing.ron"),

@@ -38,8 +38,8 @@ fn bad_scenes_exit_2_with_the_place() {
 
 #[test]
 fn pressure_must_be_within_the_rating() {
-    let e = refused(&["check", SCENE, "--pressure", "70"], "--pressure: 70 kPa is above the rated maximum");
-    assert!(e.contains("actuator \"box-100\" (60 kPa, used by gripper.fingers[0])"), "{e}");
+    let e = refused(&["check", SCENE, "--pressure", "160"], "--pressure: 160 kPa is above the rated maximum");
+    assert!(e.contains("actuator \"box-100\" (150 kPa, used by gripper.fingers[0])"), "{e}");
     refused(
         &["check", SCENE, "--pressure", "-5"],
         "--pressure: must be a finite number of kPa, at least 0, got -5",
@@ -52,14 +52,14 @@ fn pressure_must_be_within_the_rating() {
     refused(&["check", SCENE, "--elements", "10"], "--elements: must be between 40 and");
 }
 
-/// With no SCENE the bundled demo is used from any folder: its rating (60 kPa) is
+/// With no SCENE the bundled demo is used from any folder: its rating (150 kPa) is
 /// known in an empty temporary folder, so the scene and its mesh came from the binary.
 #[test]
 fn bundled_demo_is_loaded_from_any_folder() {
     let tmp = TempDir::new("check-demo-anywhere");
-    let run = arcfinger_in(tmp.path(), &["check", "--pressure", "61"]).expect_code(2);
+    let run = arcfinger_in(tmp.path(), &["check", "--pressure", "151"]).expect_code(2);
     assert!(
-        run.stderr.contains("61 kPa is above the rated maximum of actuator \"box-100\" (60 kPa"),
+        run.stderr.contains("151 kPa is above the rated maximum of actuator \"box-100\" (150 kPa"),
         "{}",
         run.stderr
     );
@@ -96,8 +96,8 @@ fn outputs_that_are_inputs_or_collide_are_refused() {
     assert_eq!(std::fs::read_dir(tmp.path()).unwrap().count(), 0, "nothing written");
 }
 
-/// `check` on the three-finger demo gripper around one centred ball (tests/data): the
-/// JSON has the keys of DESIGN 4.3; the gripper is symmetric under rotations of 120°
+/// `check` on the earlier three-finger demo gripper (its soft fingers kept as test data) around one centred
+/// ball (tests/data): the JSON has the keys of DESIGN 4.3; the gripper is symmetric under rotations of 120°
 /// about z and so is the ball, so every finger touches and the three contacts carry the
 /// same normal force and sit at the same height (symmetry, no reference needed); contacts
 /// lie on the sphere with unit normals along the radius into it; and the verdict agrees
@@ -268,4 +268,116 @@ fn an_object_wider_than_the_open_fingers_does_not_fit() {
     assert!((depth - 6.0).abs() < 1e-6, "depth {depth} mm");
     let reason = ball["reasons"][0].as_str().unwrap();
     assert!(reason.contains("does not fit") && reason.contains("6.0 mm"), "{reason}");
+}
+
+/// The objects of a check document by name.
+fn objects_by_name(doc: &serde_json::Value) -> std::collections::BTreeMap<String, serde_json::Value> {
+    doc["objects"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|o| (o["name"].as_str().unwrap().to_string(), o.clone()))
+        .collect()
+}
+
+/// The failure kinds of an object, in report order.
+fn kinds(object: &serde_json::Value) -> Vec<String> {
+    object["failures"].as_array().unwrap().iter().map(|f| f["kind"].as_str().unwrap().to_string()).collect()
+}
+
+/// A jar (a vertical cylinder) held by fingers on its side only: every contact normal is
+/// horizontal, so in the lift case each contact lifts with its friction alone, at most
+/// `mu N_i` (Coulomb). With the contacts spread evenly around the jar at one height the
+/// horizontal forces and the torques cancel, and the largest balanced load scale is
+/// `s = mu sum_i N_i / (m (g + a))` (Coulomb's law and statics). Checks that the
+/// reported contacts are such side contacts and returns `(reported, closed form)`.
+fn side_grip_lift_margin(jar: &serde_json::Value, mass_kg: f64, mu: f64, lift_accel: f64) -> (f64, f64) {
+    let mut sum = 0.0;
+    for c in jar["contacts"].as_array().unwrap() {
+        let nz = c["normal"][2].as_f64().unwrap();
+        assert!(nz.abs() < 1e-6, "a contact off the side of the jar: {c}");
+        sum += c["normal_force_n"].as_f64().unwrap();
+    }
+    (jar["holding"]["lift"].as_f64().unwrap(), mu * sum / (mass_kg * (9.806_65 + lift_accel)))
+}
+
+/// The bundled demo (no SCENE) at its 100 kPa supply: the produce and the egg pass, and
+/// their pressure windows hold the supply pressure; the 540 g honey jar behind glass
+/// (friction 0.4) fails on holding margin alone. It is too heavy, not badly gripped: its
+/// lift margin is the Coulomb bound of its side contacts, below the safety factor of 2.
+#[test]
+fn bundled_demo_fails_only_the_heavy_jar_and_on_holding() {
+    let tmp = TempDir::new("check-demo-verdicts");
+    let run = arcfinger_in(tmp.path(), &["check", "--json", "-"]).expect_code(1);
+    let doc: serde_json::Value = serde_json::from_str(&run.stdout).unwrap();
+    assert_eq!(doc["pressure_kpa"].as_f64(), Some(100.0));
+    let objects = objects_by_name(&doc);
+    assert_eq!(objects.len(), 5);
+    for (name, o) in &objects {
+        if name == "honey-jar" {
+            continue;
+        }
+        assert_eq!(o["verdict"], "pass", "{name}: {o}");
+        let w = &o["pressure_window_kpa"];
+        assert!(w[0].as_f64().unwrap() <= 100.0 && 100.0 <= w[1].as_f64().unwrap(), "{name}: window {w}");
+    }
+    let jar = &objects["honey-jar"];
+    assert_eq!(jar["verdict"], "fail");
+    assert!(kinds(jar).iter().all(|k| k == "holding"), "{:?}", kinds(jar));
+    assert_eq!(jar["fingers_in_contact"].as_u64(), Some(3));
+    let (got, expected) = side_grip_lift_margin(jar, 0.540, 0.4, 5.0);
+    assert!((got / expected - 1.0).abs() < 1e-4, "lift margin {got} vs Coulomb bound {expected}");
+    assert!(expected < 2.0, "the jar must be too heavy for the fingers' friction: {expected}");
+    // no swept pressure serves the jar, so none serves the whole set
+    assert_eq!(doc["recommended_pressure_kpa"], serde_json::Value::Null);
+}
+
+/// The four-finger demo at its 100 kPa supply (checked without its sweep, for speed):
+/// seven objects pass; three fail, each for its own physical reason. The honey jar is
+/// too heavy (holding margin alone, at the Coulomb bound of its side contacts); the
+/// cherry tomato is too small (fingers that reach it run into each other, see below); the
+/// ripe fig is too fragile (its only failure
+/// is the contact force, above its 1.5 N bruising limit).
+#[test]
+fn four_finger_demo_fails_the_heavy_the_small_and_the_fragile() {
+    let tmp = TempDir::new("check-demo-4f");
+    let text = std::fs::read_to_string(repo("scenes/packing-line-4f.ron")).unwrap();
+    let sweep = "sweep_kpa: Some((0.0, 120.0, 5.0)),";
+    assert!(text.contains(sweep), "the demo sweeps 25 pressures, 0 to 120 kPa");
+    let scene = tmp.write("4f.ron", &text.replace(sweep, "sweep_kpa: None,"));
+    tmp.write(
+        "meshes/bell-pepper.obj",
+        &std::fs::read_to_string(repo("scenes/meshes/bell-pepper.obj")).unwrap(),
+    );
+    let run = arcfinger(&["check", &scene.display().to_string(), "--json", "-"]).expect_code(1);
+    let doc: serde_json::Value = serde_json::from_str(&run.stdout).unwrap();
+    let objects = objects_by_name(&doc);
+    assert_eq!(objects.len(), 10);
+    let failing: Vec<&str> =
+        objects.iter().filter(|(_, o)| o["verdict"] == "fail").map(|(n, _)| n.as_str()).collect();
+    assert_eq!(failing, ["cherry-tomato", "honey-jar", "ripe-fig"]);
+
+    let jar = &objects["honey-jar"];
+    assert!(kinds(jar).iter().all(|k| k == "holding"), "{:?}", kinds(jar));
+    let (got, expected) = side_grip_lift_margin(jar, 0.540, 0.4, 5.0);
+    assert!((got / expected - 1.0).abs() < 1e-4, "lift margin {got} vs Coulomb bound {expected}");
+    assert!(expected < 2.0);
+
+    // Too small: four fingers 26 mm wide (half-round, outer radius 10 + 3 mm) set 90°
+    // apart overlap wherever they come nearer to the axis than their half-width, 13 mm
+    // (two slabs |y| <= 13, x >= rho and |x| <= 13, y >= rho meet iff rho <= 13;
+    // plane geometry). The tomato is 12 mm in radius, so a finger that touches it runs
+    // into its neighbours: whichever closing the solver finds, it fails as interference,
+    // or, where no finger reaches it, as too few fingers.
+    let tomato = &objects["cherry-tomato"];
+    let tk = kinds(tomato);
+    let touched = tomato["fingers_in_contact"].as_u64().unwrap();
+    if touched > 0 {
+        assert!(tk.contains(&"interference".to_string()), "{tk:?}");
+    } else {
+        assert!(tk.contains(&"too-few-fingers".to_string()), "{tk:?}");
+    }
+    let fig = &objects["ripe-fig"];
+    assert_eq!(kinds(fig), ["contact-force"]);
+    assert!(fig["peak_contact_force_n"].as_f64().unwrap() > 1.5);
 }

@@ -3,8 +3,8 @@
 //!
 //! The scene is `scenes/packing-line-mix10.ron` (the demo gripper's actuator and ten
 //! objects); the space draws `ARCFINGER_BENCH_CANDIDATES` (default 1000) ring layouts of
-//! 3 to 5 fingers from a Latin hypercube, with windows over 20..60 kPa in 10 kPa steps
-//! and verdicts at 40 kPa, so each candidate is 10 objects x 6 pressures of the grasp
+//! 3 to 5 fingers from a Latin hypercube, with windows over 20..120 kPa in 20 kPa steps
+//! and verdicts at the 100 kPa supply, so each candidate is 10 objects x 6 pressures of the grasp
 //! check. The bench prints the wall time and CPU time (user + system, of the child
 //! process) and the rate, and for a smaller run the time 1000 candidates would take at
 //! that rate. `RAYON_NUM_THREADS` is passed through (set it to 2 for the 2-core figure).
@@ -22,8 +22,8 @@ fn space(samples: usize) -> String {
     tilt_deg: Range(-10.0, 15.0),
     azimuth_offset_deg: Range(0.0, 60.0),
     actuators: [\"box-100\"],
-    pressures_kpa: (20.0, 60.0, 10.0),
-    check_pressure_kpa: Some(40.0),
+    pressures_kpa: (20.0, 120.0, 20.0),
+    check_pressure_kpa: Some(100.0),
     sampling: LatinHypercube(samples: {samples}),
     seed: 1,
 )

@@ -331,7 +331,7 @@ mod tests {
         assert_eq!(demo, from_file);
         assert!(demo.objects.iter().any(|o| matches!(o.shape, ObjectShape::Mesh { .. })));
         let (max, name, finger) = rating(&demo).unwrap();
-        assert_eq!((max, name, finger), (60e3, "box-100", 0));
+        assert_eq!((max, name, finger), (150e3, "box-100", 0));
     }
 
     /// The embedded path goes through the same checks: a mesh path outside the table,
@@ -367,7 +367,16 @@ mod tests {
         scene.actuators[0].fiber.pitch = 12e-3;
         let w = wrap_warnings(&scene);
         assert_eq!(w.len(), 1);
-        assert!(w[0].contains("box-100") && w[0].contains("wind at a pitch of at most 4.06 mm"), "{}", w[0]);
+        // Largest safe pitch at twice the rated 150 kPa (q = 300 kPa), Shore 20A class
+        // (mu = 338 kPa / 1.75, its 100 % modulus through the neo-Hookean law), 3 mm
+        // walls: the span `b` with `q b^4 / (128 mu t^3) + 3 q b^2 / (20 mu t) = t / 2`
+        // (clamped strip with Timoshenko shear; Timoshenko & Woinowsky-Krieger 1959,
+        // ch. 1), a quadratic in `b^2`, plus the 1 mm ribbon.
+        let (q, mu, t) = (300.0f64, 338.0f64 / 1.75, 3.0f64);
+        let (a2, a1) = (q / (128.0 * mu * t.powi(3)), 3.0 * q / (20.0 * mu * t));
+        let b2 = (-a1 + (a1 * a1 + 2.0 * a2 * t).sqrt()) / (2.0 * a2);
+        let pitch = format!("wind at a pitch of at most {:.2} mm", b2.sqrt() + 1.0);
+        assert!(w[0].contains("box-100") && w[0].contains(&pitch), "{pitch}: {}", w[0]);
     }
 
     #[test]

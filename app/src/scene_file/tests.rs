@@ -551,18 +551,53 @@ fn design_example_loads_and_converts_to_si() {
 
 #[test]
 fn demo_scenes_load_with_their_meshes() {
-    for (file, fingers, section) in
-        [("scenes/packing-line-3f.ron", 3, "Box"), ("scenes/packing-line-4f.ron", 4, "HalfRound")]
-    {
+    let three = ["peach", "hen-egg", "bell-pepper", "plum", "honey-jar"];
+    let four = [
+        "peach",
+        "hen-egg",
+        "bell-pepper",
+        "apple",
+        "tomato",
+        "lemon",
+        "plum",
+        "honey-jar",
+        "cherry-tomato",
+        "ripe-fig",
+    ];
+    let mix = [&three[..], &["apricot", "duck-egg", "lemon", "punnet", "cherry-tomato"]].concat();
+    for (file, fingers, section, objects) in [
+        ("scenes/packing-line-3f.ron", 3, "Box", &three[..]),
+        ("scenes/packing-line-4f.ron", 4, "HalfRound", &four[..]),
+        ("scenes/packing-line-mix10.ron", 3, "Box", &mix[..]),
+    ] {
         let scene = load(&repo(file)).unwrap_or_else(|e| panic!("{file}: {e}"));
         assert_eq!(scene.gripper.fingers.len(), fingers, "{file}");
         assert_eq!(scene.actuators[0].section.kind(), section, "{file}");
         let names: Vec<&str> = scene.objects.iter().map(|o| o.name.as_str()).collect();
-        assert_eq!(names, ["peach", "hen-egg", "bell-pepper", "jar", "punnet"], "{file}");
+        assert_eq!(names, objects, "{file}");
+        // the speed benchmark's scene: 4 fingers, at least 8 objects, 25 sweep pressures
+        if fingers == 4 {
+            let s = scene.criteria.sweep.unwrap();
+            assert!(names.len() >= 8);
+            assert_eq!(((s.to - s.from) / s.step).round() as usize + 1, 25, "{file}");
+        }
         // every object below the palm and within reach of the unbent fingers
         let reach = scene.actuators[0].length();
         for o in &scene.objects {
             assert!(o.position.z < 0.0 && -o.position.z < reach, "{file}: {} at {}", o.name, o.position);
+        }
+        // Produce and eggs weigh about as much as water (0.7 to 1.2 g/cm³, from memory):
+        // the demo's balls and ellipsoids are of a plausible mass for their size.
+        for o in &scene.objects {
+            let volume = match o.shape {
+                ObjectShape::Sphere { radius } => 4.0 / 3.0 * std::f64::consts::PI * radius.powi(3),
+                ObjectShape::Ellipsoid { semi_axes } => {
+                    4.0 / 3.0 * std::f64::consts::PI * semi_axes.x * semi_axes.y * semi_axes.z
+                }
+                _ => continue,
+            };
+            let density = o.mass / volume / 1000.0; // g/cm³
+            assert!((0.7..1.2).contains(&density), "{file}: {} at {density:.2} g/cm³", o.name);
         }
         // the rated pressure bounds the criteria
         let rated = scene.actuators[0].max_pressure;
@@ -605,8 +640,12 @@ fn demo_scenes_load_with_their_meshes() {
 /// scene the project ships.
 #[test]
 fn scene_documents_survive_a_round_trip() {
-    for file in ["tests/data/design-example.ron", "scenes/packing-line-3f.ron", "scenes/packing-line-4f.ron"]
-    {
+    for file in [
+        "tests/data/design-example.ron",
+        "scenes/packing-line-3f.ron",
+        "scenes/packing-line-4f.ron",
+        "scenes/packing-line-mix10.ron",
+    ] {
         let text = std::fs::read_to_string(repo(file)).unwrap();
         let doc: SceneDoc = parse_doc(file, &text).unwrap();
         let written = ron::ser::to_string_pretty(&doc, ron::ser::PrettyConfig::default()).unwrap();

@@ -4,14 +4,21 @@
 //! Method: each finger is the rod of [`crate::rod`] with its section law, its own weight
 //! (rubber density times volume, lumped at element midpoints, gravity `-z`) and
 //! unilateral contact against the object and the palm. The pressure is ramped from zero
-//! in steps (the finger closes from open, as on the bench); at each step the contact
-//! geometry is linearised about the current configuration — for every body piece within
+//! in steps (the finger closes from open, as on the bench). Each pressure step is solved
+//! by SQP steps ([`crate::rod::contact_step`]): before every step the contact geometry
+//! is linearised about the current configuration — for every body piece within
 //! [`PREDICTION`] of an obstacle, parry's closest points give a gap
 //! `g = d - n_p . (x - x_0)` for the material point under the contact, `n_p` the in-plane
-//! part of the contact normal — the rod is solved with those gaps by the active-set
-//! method of [`crate::rod::solve_with_gaps`], and the geometry is queried again, until
-//! the true penetration is below [`PENETRATION_TOLERANCE`] (DESIGN 3.3: 0.01 mm) and the
-//! contact set stops changing. Out-of-plane components of contact forces are carried by
+//! part of the contact normal — and one quadratic program in the angles, with those gaps
+//! as linear constraints, gives the step and the contact forces together. The step is
+//! limited to node moves of half the prediction distance (what the linearisation sees).
+//! A step is settled when the equilibrium residual is below 1e-8 relative (DESIGN 3.3),
+//! the step itself below 1e-9 rad and the true penetration below
+//! [`PENETRATION_TOLERANCE`] (0.01 mm). The forces and active set of one step seed the
+//! next, matched by body piece. (An earlier version solved each linearisation to
+//! convergence with the active-set method of [`crate::rod::solve_with_gaps`], itself a
+//! sequence of Newton solves: the same equilibria, at many times the cost.)
+//! Out-of-plane components of contact forces are carried by
 //! the finger's lateral stiffness, taken as rigid (DESIGN 3.3). A finger whose contact
 //! normal lies almost out of its plane (in-plane part below 5 %) cannot push that way and
 //! gets no gap there. The section where the chamber leaves the hub is clamped and gets
@@ -36,7 +43,10 @@ use super::ContactReport;
 use crate::actuator::Actuator;
 use crate::geometry::{FingerBody, FingerFrame, ObjectGeometry, PieceKind};
 use crate::math::{Pose, Vec3};
-use crate::rod::{MaterialPoint, PointGap, PointLoad, Rod, SolveReport, SolveStatus, solve_with_gaps};
+use crate::rod::{
+    GAP_TOLERANCE, MaterialPoint, PointGap, PointLoad, RESIDUAL_TOLERANCE, Rod, SolveReport, SolveStatus,
+    contact_step, limit_step,
+};
 use crate::section::SectionModel;
 
 /// Standard gravity (m/s²; the conventional value, CGPM 1901).
@@ -52,8 +62,11 @@ pub const PENETRATION_TOLERANCE: f64 = 1e-5;
 const MAX_STEP_DEPTH: f64 = 0.25;
 /// Pressure steps of the ramp from zero to the supply pressure.
 const RAMP_STEPS: usize = 4;
-/// Re-linearisations allowed per pressure step.
-const MAX_RELINEARISATIONS: usize = 12;
+/// SQP steps (each with a fresh linearisation of the contact geometry) allowed per
+/// pressure step.
+const MAX_STEPS: usize = 60;
+/// Largest angle step (rad) of a settled state: the next step would not move it.
+const STEP_TOLERANCE: f64 = 1e-9;
 /// Pressure-step halvings allowed in one closing.
 pub const MAX_HALVINGS: usize = 12;
 
@@ -230,8 +243,11 @@ enum Settle {
     Failed,
 }
 
-/// Closes the finger at pressure `p` from `angles` by repeated linearisation, with gaps
-/// for the body pieces within `prediction` (m) of an obstacle.
+/// Closes the finger at pressure `p` from `angles` by SQP steps ([`contact_step`]), the
+/// contact geometry linearised afresh before each step, with gaps for the body pieces
+/// within `prediction` (m) of an obstacle. Each step is limited to node moves of half
+/// the prediction distance (what the linearisation sees); the forces and the active set
+/// of one step seed the next, matched by body piece and obstacle.
 #[expect(clippy::too_many_arguments, reason = "internal helper of close_finger")]
 fn settle(
     actuator: &Actuator,
@@ -247,59 +263,80 @@ fn settle(
     let law = actuator.law(p, model);
     let mut angles = angles.to_vec();
     let near = obstacles.near(prediction);
-    let body =
-        FingerBody::new_where(rod, &angles, &actuator.section, frame, &near).map_err(|e| e.to_string())?;
-    let (mut lin, _, _) = linearise(rod, &angles, &body, obstacles, prediction)?;
-    // the active-set seed carried over from the previous linearisation
-    let mut seeds: Vec<Vec<bool>> = Vec::new();
-    let mut prev_pieces: Option<Vec<PieceKind>> = None;
-    for _ in 0..MAX_RELINEARISATIONS {
-        let gaps: Vec<PointGap> = lin.iter().map(|l| l.gap).collect();
-        let mut sol = None;
-        for seed in &seeds {
-            let s = solve_with_gaps(rod, &law, loads, &[], &gaps, Some(&angles), Some(seed))
-                .map_err(|e| e.to_string())?;
-            let converged = s.solution.report.converged();
-            sol = Some(s);
-            if converged {
-                break;
-            }
-        }
-        // no seed, or none worked (a carried-over set may hold gaps that cannot all
-        // close): start the active set afresh from the gaps closed now
-        let sol = match sol {
-            Some(s) if s.solution.report.converged() => s,
-            _ => solve_with_gaps(rod, &law, loads, &[], &gaps, Some(&angles), None)
-                .map_err(|e| e.to_string())?,
-        };
-        report.iterations += sol.solution.report.iterations;
-        report.residual = sol.solution.report.residual;
-        report.constraint_residual = sol.solution.report.constraint_residual;
-        if !sol.solution.report.converged() {
-            report.status = sol.solution.report.status;
-            return Ok(Settle::Failed);
-        }
-        angles.clone_from(&sol.solution.angles);
+    // (piece, on the object, force, active) of the previous step
+    let mut previous: Vec<(PieceKind, bool, f64, bool)> = Vec::new();
+    let mut previous_step: Option<Vec<f64>> = None;
+    let mut max_move = 0.5 * prediction;
+    for _ in 0..MAX_STEPS {
+        report.iterations += 1;
         let body = FingerBody::new_where(rod, &angles, &actuator.section, frame, &near)
             .map_err(|e| e.to_string())?;
-        let (next, pen, too_deep) = linearise(rod, &angles, &body, obstacles, prediction)?;
-        let penetration = pen.max(0.0);
+        let (lin, pen, too_deep) = linearise(rod, &angles, &body, obstacles, prediction)?;
         if too_deep && prediction < rod.length() {
             return Ok(Settle::TooDeep);
         }
-        let pieces: Vec<PieceKind> =
-            lin.iter().zip(&sol.active).filter(|(_, a)| **a).map(|(l, _)| l.piece).collect();
-        let stable = prev_pieces.as_ref() == Some(&pieces) || pieces.is_empty();
-        if penetration <= PENETRATION_TOLERANCE && stable {
-            return Ok(Settle::Settled(StepResult { angles, lin, forces: sol.gap_forces, penetration }));
+        let penetration = pen.max(0.0);
+        let gaps: Vec<PointGap> = lin.iter().map(|l| l.gap).collect();
+        let carried = |l: &Linearised| previous.iter().find(|q| q.0 == l.piece && q.1 == l.on_object);
+        let curvature_forces: Vec<f64> = lin.iter().map(|l| carried(l).map_or(0.0, |q| q.2)).collect();
+        let seed: Option<Vec<bool>> = (!previous.is_empty()).then(|| {
+            lin.iter().map(|l| carried(l).map_or_else(|| is_closed(rod, &angles, l), |q| q.3)).collect()
+        });
+        let step = match contact_step(rod, &law, loads, &angles, &gaps, &curvature_forces, seed.as_deref()) {
+            Ok(s) => s,
+            // a curvature outside the law's range, or a degenerate contact program
+            Err(_) => {
+                report.status = SolveStatus::Stalled;
+                return Ok(Settle::Failed);
+            }
+        };
+        report.residual = step.residual;
+        let size = step.step.iter().fold(0.0f64, |a, v| a.max(v.abs()));
+        report.constraint_residual = penetration / rod.length();
+        if step.residual <= RESIDUAL_TOLERANCE
+            && size <= STEP_TOLERANCE
+            && penetration <= PENETRATION_TOLERANCE
+        {
+            return Ok(Settle::Settled(StepResult { angles, lin, forces: step.forces, penetration }));
         }
-        // carry the active set over to the new linearisation, piece by piece
-        let in_contact: Vec<bool> = next.iter().map(|l| pieces.contains(&l.piece)).collect();
-        seeds = vec![in_contact];
-        prev_pieces = Some(pieces);
-        lin = next;
+        // a step that turns back on the previous one (the contact switching between two
+        // pieces, each linearisation sending the finger toward the other) halves the
+        // move allowed; steps taken whole let it grow back to half the prediction
+        let mut d = step.step;
+        let turns_back = previous_step.as_ref().is_some_and(|q: &Vec<f64>| {
+            let dot: f64 = q.iter().zip(&d).map(|(a, b)| a * b).sum();
+            let norms =
+                q.iter().map(|v| v * v).sum::<f64>().sqrt() * d.iter().map(|v| v * v).sum::<f64>().sqrt();
+            dot < -0.3 * norms
+        });
+        if turns_back {
+            max_move *= 0.5;
+        }
+        let alpha = limit_step(rod, &angles, &mut d, max_move);
+        if alpha >= 1.0 && !turns_back {
+            max_move = (2.0 * max_move).min(0.5 * prediction);
+        }
+        previous_step = Some(d.clone());
+        for (a, v) in angles.iter_mut().zip(&d) {
+            *a += v;
+        }
+        if angles.iter().any(|a| !a.is_finite()) {
+            report.status = SolveStatus::Stalled;
+            return Ok(Settle::Failed);
+        }
+        previous = lin
+            .iter()
+            .zip(step.forces.iter().zip(&step.active))
+            .map(|(l, (f, a))| (l.piece, l.on_object, *f, *a))
+            .collect();
     }
+    report.status = SolveStatus::IterationLimit;
     Ok(Settle::Failed)
+}
+
+/// A gap closed (or nearly) at the current configuration: it starts active.
+fn is_closed(rod: &Rod, angles: &[f64], l: &Linearised) -> bool {
+    rod.position(angles, l.gap.point).is_ok_and(|x| l.gap.normal.dot(x) - l.gap.offset <= GAP_TOLERANCE)
 }
 
 /// Closes finger `finger` (mounted at `frame`) of `actuator` at `pressure` (Pa) on the
@@ -519,6 +556,41 @@ mod tests {
                     "{shape:?}: element {j}: m = {m:.5e}, loads beyond give {beyond:.5e} (scale {scale:.3e})"
                 );
             }
+        }
+    }
+
+    /// The premise of reusing one finger's closing for the others on an axisymmetric
+    /// object (`check::evaluate`): the closing problem is invariant under rotations about
+    /// the gripper axis (sphere and palm disk on the axis, gravity along it), so a finger
+    /// mounted at another azimuth closes to the same angles, with contacts turned by the
+    /// azimuth difference (to the solver's tolerances).
+    #[test]
+    fn closing_is_invariant_under_rotation_about_the_axis() {
+        let a = demo_finger();
+        let rod = Rod::of_actuator(&a, 40).unwrap();
+        let obj =
+            ObjectGeometry::new(&ObjectShape::Sphere { radius: 0.034 }, Vec3::new(0.0, 0.0, -0.075)).unwrap();
+        let palm = palm_body(&Palm::Disk { radius: 0.075, thickness: 0.012 }).unwrap();
+        let obs = Obstacles { object: &obj, palm: &palm };
+        let (az0, az1) = (0.3, 0.3 + 2.1);
+        let close = |az: f64| {
+            let frame = FingerFrame::new(az, 0.065, 0.05).unwrap();
+            close_finger(0, &a, &rod, frame, SectionModel::WallPressure, 45e3, &obs, None).unwrap()
+        };
+        let (c0, c1) = (close(az0), close(az1));
+        assert_eq!(c0.report.status, SolveStatus::Converged);
+        assert_eq!(c1.report.status, SolveStatus::Converged);
+        for (x, y) in c0.angles.iter().zip(&c1.angles) {
+            assert!((x - y).abs() < 1e-7, "{x} vs {y}");
+        }
+        assert_eq!(c0.contacts.len(), c1.contacts.len());
+        assert!(!c0.contacts.is_empty());
+        let turn = crate::math::Rotation::from_rotation_z(az1 - az0);
+        for (k0, k1) in c0.contacts.iter().zip(&c1.contacts) {
+            assert_eq!(k0.element, k1.element);
+            assert!((turn * k0.point - k1.point).length() < 1e-7);
+            assert!((turn * k0.normal - k1.normal).length() < 1e-6);
+            assert!((k0.normal_force / k1.normal_force - 1.0).abs() < 1e-5);
         }
     }
 

@@ -25,7 +25,7 @@ use crate::geometry::{FingerBody, FingerFrame, ObjectGeometry, free_angles, palm
 use crate::grasp::{self, GraspContact, HoldingSettings};
 use crate::math::Pose;
 use crate::rod::{Rod, SolveStatus};
-use crate::scene::{Scene, TargetObject};
+use crate::scene::{ObjectShape, Scene, TargetObject};
 
 /// Overlap of two fingers' bodies that counts as interference (m): 0.1 mm, ten times
 /// the contact solve's penetration tolerance.
@@ -101,6 +101,56 @@ enum Detail {
     Verdict,
 }
 
+/// Whether the object is unchanged by every rotation about the gripper's `z` axis: a
+/// sphere, an upright cylinder or capsule, or an ellipsoid with equal horizontal
+/// semi-axes, centred on the axis. The palm (a disk on the axis) and gravity (`-z`) are
+/// too, so then fingers with the same actuator, mount radius and tilt face the same
+/// closing problem, each in its own plane.
+fn axisymmetric(object: &TargetObject) -> bool {
+    let on_axis = object.position.x == 0.0 && object.position.y == 0.0;
+    on_axis
+        && match &object.shape {
+            ObjectShape::Sphere { .. } | ObjectShape::Cylinder { .. } | ObjectShape::Capsule { .. } => true,
+            ObjectShape::Ellipsoid { semi_axes } => semi_axes.x == semi_axes.y,
+            ObjectShape::Box { .. } | ObjectShape::Mesh { .. } => false,
+        }
+}
+
+/// Fingers `i` and `j` close identically on an axisymmetric object: same actuator, rod,
+/// mount radius and tilt, and the same starting state.
+fn same_closing(rig: &Rig<'_>, starts: Option<&[(f64, Vec<f64>)]>, i: usize, j: usize) -> bool {
+    let (a, b) = (&rig.scene.gripper.fingers[i], &rig.scene.gripper.fingers[j]);
+    let start = |k: usize| starts.and_then(|s| s.get(k));
+    a.actuator == b.actuator
+        && a.radius == b.radius
+        && a.tilt == b.tilt
+        && rig.rods[i] == rig.rods[j]
+        && start(i) == start(j)
+}
+
+/// The closing of finger `from` turned about the `z` axis onto finger `to` (the angles
+/// are the same; the body is rebuilt in `to`'s frame; contact points and normals turn by
+/// the azimuth difference).
+fn rotated_closing(rig: &Rig<'_>, c: &ClosedFinger, from: usize, to: usize) -> Result<ClosedFinger, String> {
+    let fingers = &rig.scene.gripper.fingers;
+    let turn = crate::math::Rotation::from_rotation_z(fingers[to].azimuth - fingers[from].azimuth);
+    let actuator = rig.actuator(to);
+    let body = FingerBody::new(&rig.rods[to], &c.angles, &actuator.section, rig.frames[to])
+        .map_err(|e| e.to_string())?;
+    let contacts = c
+        .contacts
+        .iter()
+        .map(|k| ContactReport { finger: to, point: turn * k.point, normal: turn * k.normal, ..*k })
+        .collect();
+    Ok(ClosedFinger {
+        angles: c.angles.clone(),
+        body,
+        contacts,
+        penetration: c.penetration,
+        report: c.report,
+    })
+}
+
 fn evaluate(
     rig: &Rig<'_>,
     object: &TargetObject,
@@ -114,9 +164,20 @@ fn evaluate(
     let obstacles = Obstacles { object: geometry, palm: &rig.palm };
     let mut failures = Vec::new();
     let mut closed = Vec::with_capacity(rig.frames.len());
+    let symmetric = axisymmetric(object);
     for (i, frame) in rig.frames.iter().enumerate() {
         let actuator = rig.actuator(i);
         let start = starts.and_then(|s| s.get(i)).map(|(p, a)| (*p, a.as_slice()));
+        if symmetric && let Some(j) = (0..i).find(|&j| same_closing(rig, starts, i, j)) {
+            let c = rotated_closing(rig, &closed[j], j, i).map_err(CheckError::Geometry)?;
+            if c.report.status != SolveStatus::Converged {
+                failures.push(Failure::NotConverged {
+                    what: format!("finger {i} closing on \"{}\" ({})", object.name, c.report.status.name()),
+                });
+            }
+            closed.push(c);
+            continue;
+        }
         let c = close_finger(
             i,
             actuator,
@@ -203,7 +264,7 @@ fn evaluate(
             failures.push(Failure::Enclosure { got: report.enclosure, need: criteria.min_enclosure });
         }
     }
-    if detail == Detail::Full && !grasp_contacts.is_empty() {
+    if detail == Detail::Full && settings.epsilon && !grasp_contacts.is_empty() {
         report.epsilon = grasp::epsilon_quality(
             &grasp_contacts,
             object.position,
@@ -395,15 +456,34 @@ pub fn check_scene(scene: &Scene, settings: &CheckSettings) -> Result<CheckRepor
                 };
                 return Ok((report, vec![false; sweep.len()]));
             }
-            let mut report = evaluate(&rig, object, geometry, pressure, settings, None, Detail::Full)?.report;
+            let supply = evaluate(&rig, object, geometry, pressure, settings, None, Detail::Full)?;
             let mut passes = Vec::with_capacity(sweep.len());
             let mut starts: Option<Vec<(f64, Vec<f64>)>> = None;
+            let mut supply_closed = Some(supply.closed);
             for &p in &sweep {
-                let e = evaluate(&rig, object, geometry, p, settings, starts.as_deref(), Detail::Verdict)?;
-                passes.push(e.report.verdict == Verdict::Pass);
-                let converged = e.closed.iter().all(|c| c.report.status == SolveStatus::Converged);
-                starts = converged.then(|| e.closed.into_iter().map(|c| (p, c.angles)).collect());
+                // the sweep point at the supply pressure is the supply's own closing and
+                // verdict (the same criteria): one solve fewer, and the window agrees with
+                // the verdict at the supply pressure
+                let (pass, closed) = match supply_closed.take_if(|_| p == pressure) {
+                    Some(closed) => (supply.report.verdict == Verdict::Pass, closed),
+                    None => {
+                        let e = evaluate(
+                            &rig,
+                            object,
+                            geometry,
+                            p,
+                            settings,
+                            starts.as_deref(),
+                            Detail::Verdict,
+                        )?;
+                        (e.report.verdict == Verdict::Pass, e.closed)
+                    }
+                };
+                passes.push(pass);
+                let converged = closed.iter().all(|c| c.report.status == SolveStatus::Converged);
+                starts = converged.then(|| closed.into_iter().map(|c| (p, c.angles)).collect());
             }
+            let mut report = supply.report;
             report.pressure_window = widest_run(&passes).map(|(a, b)| (sweep[a], sweep[b]));
             Ok((report, passes))
         })

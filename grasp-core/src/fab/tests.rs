@@ -7,7 +7,7 @@ use crate::material::{HyperelasticModel, Material, NeoHookean};
 use crate::section::{BoxSection, HalfRoundSection, SectionModel};
 use approx::assert_relative_eq;
 
-/// The demo scene's `box-100` finger (mm): 14 × 10 chamber, 3 mm walls, floor 2.5,
+/// A `Box` test finger (mm; the demo's first `box-100`): 14 × 10 chamber, 3 mm walls, floor 2.5,
 /// under-layer 1; 100 mm chamber, 6 mm base, 5 mm tip; pitch 3.5, ribbon 1.
 fn box_100() -> Actuator {
     let s = BoxSection::new(14e-3, 10e-3, 3e-3, 3e-3, 2.5e-3, 1e-3).unwrap();

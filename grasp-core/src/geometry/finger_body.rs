@@ -164,7 +164,9 @@ impl FingerBody {
                     pts.push(frame.to_world_offset(p + q.y * up, q.x) - centre);
                 }
             }
-            let shape = SharedShape::convex_hull(&pts).ok_or(GeometryError::Hull { what: "finger piece" })?;
+            let shape = SharedShape::new(
+                super::PointHull::of_volume(pts).ok_or(GeometryError::Hull { what: "finger piece" })?,
+            );
             pieces.push(BodyPiece {
                 kind,
                 s_start: s0,

@@ -16,12 +16,18 @@
 //! are parry [`Pose`]s: `pose * local_point` gives the gripper-frame point.
 //! Shape-local quantities carry a `local_` prefix.
 
+pub mod ellipsoid;
 pub mod finger_body;
 pub mod hub;
+pub mod mesh_hull;
+pub mod point_hull;
 pub mod shapes;
 
+pub use ellipsoid::EllipsoidHull;
 pub use finger_body::{BodyPiece, FingerBody, PieceKind, free_angles, palm_body};
 pub use hub::{FingerFrame, HubPattern, finger_frames};
+pub use mesh_hull::MeshHull;
+pub use point_hull::PointHull;
 pub use shapes::{ObjectGeometry, bounding_radius, object_geometry};
 
 pub use crate::math::Pose;

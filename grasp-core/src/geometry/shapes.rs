@@ -9,7 +9,7 @@
 //! | `Box` | `Cuboid` with half the edge lengths |
 //! | `Cylinder` (axis z) | `Cylinder` (parry's axis is y), turned by +90° about x |
 //! | `Capsule` (axis z) | `Capsule` from `-length/2` to `+length/2` on z |
-//! | `Ellipsoid` | convex hull of a latitude/longitude point set ([`ellipsoid_points`]) |
+//! | `Ellipsoid` | convex hull of a latitude/longitude point set ([`ellipsoid_points`], [`super::EllipsoidHull`]) |
 //! | `Mesh` | convex hull of the mesh's vertices; the mesh itself is kept as a `TriMesh` |
 //!
 //! A mesh object is represented by its **convex hull** for contact: concave pockets of
@@ -210,16 +210,16 @@ fn local_shape(shape: &ObjectShape) -> Result<(SharedShape, Pose, Option<SharedS
                 positive("semi_axes.y", s.y)?,
                 positive("semi_axes.z", s.z)?,
             );
-            let hull = SharedShape::convex_hull(&ellipsoid_points(s))
-                .ok_or(GeometryError::Hull { what: "ellipsoid" })?;
-            (hull, Pose::IDENTITY, None)
+            let hull = super::EllipsoidHull::new(s).ok_or(GeometryError::Hull { what: "ellipsoid" })?;
+            (SharedShape::new(hull), Pose::IDENTITY, None)
         }
         ObjectShape::Mesh { mesh, .. } => {
             let pts: Vec<Vec3> = used_vertices(mesh)?.collect();
             if pts.iter().any(|p| !p.is_finite()) {
                 return Err(GeometryError::NonFinite { what: "mesh vertex" });
             }
-            let hull = SharedShape::convex_hull(&pts).ok_or(GeometryError::Hull { what: "mesh" })?;
+            let hull =
+                SharedShape::new(super::MeshHull::new(&pts).ok_or(GeometryError::Hull { what: "mesh" })?);
             // parry returns a flat hull for coplanar points: refuse what spans no volume
             let extent = hull.compute_local_aabb().extents();
             if !(hull.mass_properties(1.0).mass() > 1e-9 * extent.max_element().powi(3)) {

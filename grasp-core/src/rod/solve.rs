@@ -187,6 +187,104 @@ fn normal(phi: f64) -> Vec2 {
     Vec2::new(phi.cos(), -phi.sin())
 }
 
+/// Gradient and tridiagonal Hessian of the rod's potential
+/// `Pi(psi) = sum_i h Psi(kappa_i) - t sum_j F_j . x_j(psi)` (`Psi' = m`, dead loads
+/// scaled by `t`). Every term couples at most the two angles of one element (a load's
+/// position is a chain of chords, each a function of its own element's two angles), so
+/// the Hessian is tridiagonal: `diagonal[k] = d2 Pi / d psi_k^2`, `upper[k] = d2 Pi / d
+/// psi_k d psi_{k+1}`.
+pub(crate) struct Tangent {
+    pub gradient: Vec<f64>,
+    pub diagonal: Vec<f64>,
+    pub upper: Vec<f64>,
+}
+
+/// [`Tangent`] at `angles`; `None` when the law cannot be evaluated there (or a load is
+/// off the rod). With `with_hessian` false the Hessian is left zero.
+pub(crate) fn potential_tangent(
+    rod: &Rod,
+    law: &dyn MomentLaw,
+    loads: &[PointLoad],
+    angles: &[f64],
+    t: f64,
+    with_hessian: bool,
+) -> Option<Tangent> {
+    let nd = rod.dofs();
+    let n = rod.elements;
+    let h = rod.element_length();
+    let mut out =
+        Tangent { gradient: vec![0.0; nd], diagonal: vec![0.0; nd], upper: vec![0.0; nd.max(1) - 1] };
+    // element j couples psi_j (dof j-1, or the clamp) and psi_{j+1} (dof j):
+    // d(h Psi)/d psi_{j+1} = m_j, d(h Psi)/d psi_j = -m_j
+    for (j, &kappa) in rod.curvatures(angles).iter().enumerate() {
+        let (m, dm) = law.moment(kappa).ok()?;
+        out.gradient[j] += m;
+        if j > 0 {
+            out.gradient[j - 1] -= m;
+        }
+        if with_hessian {
+            let k = dm / h;
+            out.diagonal[j] += k;
+            if j > 0 {
+                out.diagonal[j - 1] += k;
+                out.upper[j - 1] -= k;
+            }
+        }
+    }
+    // Dead loads. A load's position is the chain of full element chords before it plus
+    // its own partial arc, so the chords' terms are shared: each full chord j is
+    // differentiated once and weighted by the sum of the loads beyond it (O(n) in all
+    // instead of O(n) per load).
+    let angle = |j: usize| if j == 0 { 0.0 } else { angles[j - 1] };
+    let apply = |d: &PointDerivatives, f: Vec2, out: &mut Tangent| {
+        for &(k, d1) in &d.first {
+            out.gradient[k] -= f.dot(d1);
+        }
+        if with_hessian {
+            for &(k, l, d2) in &d.second {
+                if k == l {
+                    out.diagonal[k] -= f.dot(d2);
+                } else if l == k + 1 {
+                    out.upper[k] -= f.dot(d2);
+                }
+            }
+        }
+    };
+    // on[j]: loads whose own arc is on element j (j < n), or on the cap (j = n)
+    let mut on = vec![Vec2::ZERO; n + 1];
+    let mut scratch = PointDerivatives::default();
+    for load in loads {
+        let f = t * load.force;
+        scratch.first.clear();
+        scratch.second.clear();
+        match rod.segment(load.point.s).ok()? {
+            Segment::Base => continue,
+            Segment::Element(i, a) => {
+                on[i] += f;
+                scratch.add_arc(i, a, a / h, angle(i), angle(i + 1), load.point.y);
+            }
+            Segment::Cap(a) => {
+                on[n] += f;
+                let psi = angles[n - 1];
+                scratch.first.push((n - 1, a * normal(psi) + load.point.y * direction(psi)));
+                scratch.second.push((n - 1, n - 1, -a * direction(psi) - load.point.y * section_up(psi)));
+            }
+        }
+        apply(&scratch, f, &mut out);
+    }
+    let mut beyond = Vec2::ZERO;
+    for j in (0..n).rev() {
+        beyond += on[j + 1];
+        if beyond != Vec2::ZERO {
+            scratch.first.clear();
+            scratch.second.clear();
+            scratch.add_arc(j, h, 1.0, angle(j), angle(j + 1), 0.0);
+            apply(&scratch, beyond, &mut out);
+        }
+    }
+    Some(out)
+}
+
 struct Problem<'a> {
     rod: &'a Rod,
     law: &'a dyn MomentLaw,
@@ -213,74 +311,19 @@ impl Problem<'_> {
         let nc = self.constraints.len();
         let angles = &z.as_slice()[..nd];
         let lambda = &z.as_slice()[nd..];
-        let h = self.rod.element_length();
         let mut r = DVector::zeros(nd + nc);
         let mut jac = with_jacobian.then(|| DMatrix::zeros(nd + nc, nd + nc));
-        // element j couples psi_j (dof j-1, or the clamp) and psi_{j+1} (dof j):
-        // d(h Psi)/d psi_{j+1} = m_j, d(h Psi)/d psi_j = -m_j
-        for (j, &kappa) in self.rod.curvatures(angles).iter().enumerate() {
-            let (m, dm) = self.law.moment(kappa).ok()?;
-            r[j] += m;
-            if j > 0 {
-                r[j - 1] -= m;
-            }
-            if let Some(jm) = jac.as_mut() {
-                let k = dm / h;
-                jm[(j, j)] += k;
-                if j > 0 {
-                    jm[(j - 1, j - 1)] += k;
-                    jm[(j, j - 1)] -= k;
-                    jm[(j - 1, j)] -= k;
-                }
-            }
+        let tangent = potential_tangent(self.rod, self.law, self.loads, angles, t, with_jacobian)?;
+        for (k, g) in tangent.gradient.iter().enumerate() {
+            r[k] = *g;
         }
-        // Dead loads. A load's position is the chain of full element chords before it
-        // plus its own partial arc, so the chords' terms are shared: each full chord j is
-        // differentiated once and weighted by the sum of the loads beyond it (O(n) in all
-        // instead of O(n) per load).
-        let n = self.rod.elements;
-        let h = self.rod.element_length();
-        let angle = |j: usize| if j == 0 { 0.0 } else { angles[j - 1] };
-        let mut apply = |d: &PointDerivatives, f: Vec2, r: &mut DVector<f64>| {
-            for &(k, d1) in &d.first {
-                r[k] -= f.dot(d1);
-            }
-            if let Some(jm) = jac.as_mut() {
-                for &(k, l, d2) in &d.second {
-                    jm[(k, l)] -= f.dot(d2);
+        if let Some(jm) = jac.as_mut() {
+            for k in 0..nd {
+                jm[(k, k)] += tangent.diagonal[k];
+                if k + 1 < nd {
+                    jm[(k, k + 1)] += tangent.upper[k];
+                    jm[(k + 1, k)] += tangent.upper[k];
                 }
-            }
-        };
-        // on[j]: loads whose own arc is on element j (j < n), or on the cap (j = n)
-        let mut on = vec![Vec2::ZERO; n + 1];
-        let mut scratch = PointDerivatives::default();
-        for load in self.loads {
-            let f = t * load.force;
-            scratch.first.clear();
-            scratch.second.clear();
-            match self.rod.segment(load.point.s).ok()? {
-                Segment::Base => continue,
-                Segment::Element(i, a) => {
-                    on[i] += f;
-                    scratch.add_arc(i, a, a / h, angle(i), angle(i + 1), load.point.y);
-                }
-                Segment::Cap(a) => {
-                    on[n] += f;
-                    let psi = angles[n - 1];
-                    scratch.first.push((n - 1, a * normal(psi) + load.point.y * direction(psi)));
-                    scratch.second.push((n - 1, n - 1, -a * direction(psi) - load.point.y * section_up(psi)));
-                }
-            }
-            apply(&scratch, f, &mut r);
-        }
-        let mut beyond = Vec2::ZERO;
-        for j in (0..n).rev() {
-            beyond += on[j + 1];
-            if beyond != Vec2::ZERO {
-                scratch.first.clear();
-                scratch.second.clear();
-                scratch.add_arc(j, h, 1.0, angle(j), angle(j + 1), 0.0);
-                apply(&scratch, beyond, &mut r);
             }
         }
         for (c, con) in self.constraints.iter().enumerate() {

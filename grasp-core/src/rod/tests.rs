@@ -268,17 +268,21 @@ fn finger_pressed_against_a_flat_wall_matches_a_shooting_solution() {
         normal: Vec2::new(-1.0, 0.0),
         offset: -d,
     });
-    let c = solve_with_gaps(&rod, &law, &[], &[], &gaps, None, None).unwrap();
-    assert!(c.solution.report.converged(), "{:?}", c.solution.report);
-    let active: Vec<usize> = (0..gaps.len()).filter(|&i| c.active[i]).collect();
-    assert_eq!(active, vec![gaps.len() - 1], "only the tip corner touches");
-    assert!(c.gaps.iter().all(|g| *g >= -GAP_TOLERANCE), "{:?}", c.gaps);
-    assert!(c.gap_forces.iter().all(|f| *f >= 0.0));
-    let f = c.gap_forces[gaps.len() - 1];
-    let tip_angle = *c.solution.angles.last().unwrap();
-    let f_ref = shoot_tip_contact(&a, &law, f, tip_angle, d, depth);
-    assert!(f > 0.0);
-    assert_relative_eq!(f, f_ref, max_relative = 2e-3);
+    // both contact methods: the active set around Newton, and the SQP steps
+    let by_active_set = solve_with_gaps(&rod, &law, &[], &[], &gaps, None, None).unwrap();
+    let by_sqp = super::solve_with_gaps_sqp(&rod, &law, &[], &gaps, None, 5e-3).unwrap();
+    for (method, c) in [("active set", by_active_set), ("sqp", by_sqp)] {
+        assert!(c.solution.report.converged(), "{method}: {:?}", c.solution.report);
+        let active: Vec<usize> = (0..gaps.len()).filter(|&i| c.gap_forces[i] > 0.0).collect();
+        assert_eq!(active, vec![gaps.len() - 1], "{method}: only the tip corner touches");
+        assert!(c.gaps.iter().all(|g| *g >= -GAP_TOLERANCE), "{method}: {:?}", c.gaps);
+        assert!(c.gap_forces.iter().all(|f| *f >= 0.0));
+        let f = c.gap_forces[gaps.len() - 1];
+        let tip_angle = *c.solution.angles.last().unwrap();
+        let f_ref = shoot_tip_contact(&a, &law, f, tip_angle, d, depth);
+        assert!(f > 0.0);
+        assert_relative_eq!(f, f_ref, max_relative = 2e-3);
+    }
 }
 
 /// A law defined only for `|kappa| < 1 1/m` (out of range beyond, like a section whose

@@ -448,8 +448,8 @@ mod tests {
         assert_eq!(p, "radius_mm.to: must be >= from (80), got 40");
         let p = problems(&|d| d.tilt_deg = AxisDoc::Values(vec![0.0, 95.0]));
         assert_eq!(p, "tilt_deg[1]: must be between -90 and 90 (both excluded), got 95");
-        let p = problems(&|d| d.pressures_kpa = (0.0, 70.0, 5.0));
-        assert!(p.contains("pressures_kpa.to: must not exceed 60 kPa"), "{p}");
+        let p = problems(&|d| d.pressures_kpa = (0.0, 160.0, 5.0));
+        assert!(p.contains("pressures_kpa.to: must not exceed 150 kPa"), "{p}");
         let p = problems(&|d| d.pressures_kpa = (0.0, 60.0, 0.0));
         assert_eq!(p, "pressures_kpa.step: must be > 0, got 0");
         let p = problems(&|d| d.layouts = vec![LayoutDoc::Ring { fingers: vec![1] }]);

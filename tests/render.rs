@@ -121,6 +121,23 @@ fn project(camera: &serde_json::Value, p: [f64; 3], size: (f64, f64)) -> (f64, f
     ((px + 1.0) * 0.5 * w, (1.0 - py) * 0.5 * h, z)
 }
 
+/// The radius and centre (mm) of the object named "peach" in a scene file's text: the
+/// numbers after `Sphere(radius_mm:` and `position_mm: (` in its block.
+#[cfg(feature = "viewer")]
+fn peach_in(text: &str) -> (f64, [f64; 3]) {
+    let block = &text[text.find("name: \"peach\"").expect("a peach in the scene")..];
+    let after = |key: &str| {
+        let i = block.find(key).expect(key) + key.len();
+        &block[i..]
+    };
+    let num = |s: &str| s.trim().parse::<f64>().unwrap();
+    let r = after("Sphere(radius_mm:");
+    let radius = num(&r[..r.find(')').unwrap()]);
+    let p = after("position_mm: (");
+    let v: Vec<f64> = p[..p.find(')').unwrap()].split(',').map(num).collect();
+    (radius, [v[0], v[1], v[2]])
+}
+
 #[cfg(feature = "viewer")]
 #[test]
 fn render_puts_the_object_where_its_projection_says() {
@@ -151,11 +168,12 @@ fn render_puts_the_object_where_its_projection_says() {
         serde_json::from_str(&std::fs::read_to_string(tmp.path().join("r.json")).unwrap()).unwrap();
     assert_eq!(doc["format"], "arcfinger/render/1");
     let camera = &doc["pictures"][0]["camera"];
-    // the peach: a ball of radius 34 mm at (0, 0, -70) (scenes/packing-line-4f.ron)
-    let (cx, cy, depth) = project(camera, [0.0, 0.0, -70.0], (320.0, 240.0));
+    // the peach: a ball, its radius and centre read from the scene file itself
+    let (radius, centre) = peach_in(&std::fs::read_to_string(&scene).unwrap());
+    let (cx, cy, depth) = project(camera, centre, (320.0, 240.0));
     let t = (camera["fov_y_deg"].as_f64().unwrap().to_radians() * 0.5).tan();
     // a ball's outline seen from distance d is a circle of angular radius asin(R/d)
-    let radius_px = (34.0 / depth).asin().tan() / t * 120.0;
+    let radius_px = (radius / depth).asin().tan() / t * 120.0;
     let (mut inside, mut inside_obj, mut outside_obj) = (0usize, 0usize, 0usize);
     let mut colours = std::collections::HashSet::new();
     for y in 0..pic.height {

@@ -320,7 +320,7 @@ fn evaluate(
             failures.push(Failure::Enclosure { got: report.enclosure, need: criteria.min_enclosure });
         }
     }
-    if detail == Detail::Full && !grasp_contacts.is_empty() {
+    if detail == Detail::Full && settings.epsilon && !grasp_contacts.is_empty() {
         report.epsilon = grasp::epsilon_quality(
             &grasp_contacts,
             object.position,
@@ -512,15 +512,34 @@ pub fn check_scene(scene: &Scene, settings: &CheckSettings) -> Result<CheckRepor
                 };
                 return Ok((report, vec![false; sweep.len()]));
             }
-            let mut report = evaluate(&rig, object, geometry, pressure, settings, None, Detail::Full)?.report;
+            let supply = evaluate(&rig, object, geometry, pressure, settings, None, Detail::Full)?;
             let mut passes = Vec::with_capacity(sweep.len());
             let mut starts: Option<Vec<(f64, Vec<f64>)>> = None;
+            let mut supply_closed = Some(supply.closed);
             for &p in &sweep {
-                let e = evaluate(&rig, object, geometry, p, settings, starts.as_deref(), Detail::Verdict)?;
-                passes.push(e.report.verdict == Verdict::Pass);
-                let converged = e.closed.iter().all(|c| c.report.status == SolveStatus::Converged);
-                starts = converged.then(|| e.closed.into_iter().map(|c| (p, c.angles)).collect());
+                // the sweep point at the supply pressure is the supply's own closing and
+                // verdict (the same criteria): one solve fewer, and the window agrees with
+                // the verdict at the supply pressure
+                let (pass, closed) = match supply_closed.take_if(|_| p == pressure) {
+                    Some(closed) => (supply.report.verdict == Verdict::Pass, closed),
+                    None => {
+                        let e = evaluate(
+                            &rig,
+                            object,
+                            geometry,
+                            p,
+                            settings,
+                            starts.as_deref(),
+                            Detail::Verdict,
+                        )?;
+                        (e.report.verdict == Verdict::Pass, e.closed)
+                    }
+                };
+                passes.push(pass);
+                let converged = closed.iter().all(|c| c.report.status == SolveStatus::Converged);
+                starts = converged.then(|| closed.into_iter().map(|c| (p, c.angles)).collect());
             }
+            let mut report = supply.report;
             report.pressure_window = widest_run(&passes).map(|(a, b)| (sweep[a], sweep[b]));
             Ok((report, passes))
         })

@@ -244,11 +244,21 @@ pub struct CheckSettings {
     /// is not reached. Callers that need a hard bound also enforce it from outside (the
     /// `arcfinger` binary does).
     pub deadline: Option<std::time::Instant>,
+    /// Compute the Ferrari–Canny epsilon at the supply pressure (default true). It is
+    /// reported, not a criterion: callers that only rank verdicts and margins (the layout
+    /// sweep) turn it off and get 0 in its place.
+    pub epsilon: bool,
 }
 
 impl Default for CheckSettings {
     fn default() -> Self {
-        Self { elements: 40, enclosure_directions: 256, pressure_override: None, deadline: None }
+        Self {
+            elements: 40,
+            enclosure_directions: 256,
+            pressure_override: None,
+            deadline: None,
+            epsilon: true,
+        }
     }
 }
 

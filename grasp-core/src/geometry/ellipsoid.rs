@@ -10,8 +10,7 @@
 //! constant latitude it is the one of nearest longitude (the spherical distance grows
 //! with the longitude difference), and along a meridian the distance grows away from
 //! the foot of `e`, so only the rings bracketing `e`'s latitude (one more each side, and
-//! the poles near them) and the two nearest longitudes (one more each side) are
-//! candidates. The test compares it with the full scan.
+//! the poles near them) and the two nearest longitudes are candidates. The test compares it with the full scan.
 //!
 //! Contacts and casts then see exactly the polyhedron a full convex hull would give
 //! (GJK on a polytope terminates exactly), at the cost of a ball's.
@@ -77,17 +76,28 @@ impl SupportMap for EllipsoidHull {
         let jf = ((lat + FRAC_PI_2) / (PI / nj as f64)).floor() as isize;
         let kf = (lon / (TAU / nk as f64)).floor() as isize;
         let last = self.points.len() - 1;
-        let candidates = (jf - 1..=jf + 2).flat_map(move |j| {
-            let ring: Vec<usize> = if j <= 0 {
-                vec![0]
+        let mut best = self.points[0];
+        let mut best_dot = f64::NEG_INFINITY;
+        let mut consider = |i: usize| {
+            let p = self.points[i];
+            let d = p.dot(dir);
+            if d > best_dot {
+                best = p;
+                best_dot = d;
+            }
+        };
+        for j in jf - 1..=jf + 2 {
+            if j <= 0 {
+                consider(0);
             } else if j >= nj {
-                vec![last]
+                consider(last);
             } else {
-                (kf - 1..=kf + 2).map(|k| 1 + ((j - 1) * nk + k.rem_euclid(nk)) as usize).collect()
-            };
-            ring.into_iter()
-        });
-        farthest(candidates.map(|i| self.points[i]), dir)
+                for k in kf..=kf + 1 {
+                    consider(1 + ((j - 1) * nk + k.rem_euclid(nk)) as usize);
+                }
+            }
+        }
+        best
     }
 }
 

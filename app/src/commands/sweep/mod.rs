@@ -346,7 +346,8 @@ pub fn run(args: SweepArgs) -> Result<Outcome, AppError> {
         base: &base,
         space: &space,
         meshes: &mesh_refs,
-        settings: CheckSettings { elements: cfg.elements, ..CheckSettings::default() },
+        // the sweep's records carry no epsilon (reported by `check`, not a criterion)
+        settings: CheckSettings { elements: cfg.elements, epsilon: false, ..CheckSettings::default() },
         fingerprint: &fingerprint,
     };
     // the rounds

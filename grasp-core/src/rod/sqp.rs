@@ -24,6 +24,8 @@
 //!
 //! The closing stage re-linearises the contact geometry between steps (the gaps change
 //! with the configuration); [`solve_with_gaps_sqp`] iterates the step on fixed gaps.
+//! [`contact_step`] is the one-rod case of [`super::coupled_step`], which takes several
+//! rods at once with gaps shared between two of them (fingers touching each other).
 
 use super::coupled::{RodBlock, SharedGap, coupled_step};
 use super::solve::point_derivatives;

@@ -332,6 +332,34 @@ fn bundled_demo_fails_only_the_heavy_jar_and_on_holding() {
     assert_eq!(doc["recommended_pressure_kpa"], serde_json::Value::Null);
 }
 
+/// The four-finger demo scene without its sweep (for speed), written into `tmp` with its
+/// mesh.
+fn four_finger_demo_without_sweep(tmp: &TempDir) -> std::path::PathBuf {
+    let text = std::fs::read_to_string(repo("scenes/packing-line-4f.ron")).unwrap();
+    let sweep = "sweep_kpa: Some((0.0, 120.0, 5.0)),";
+    assert!(text.contains(sweep), "the demo sweeps 25 pressures, 0 to 120 kPa");
+    let scene = tmp.write("4f.ron", &text.replace(sweep, "sweep_kpa: None,"));
+    tmp.write(
+        "meshes/bell-pepper.obj",
+        &std::fs::read_to_string(repo("scenes/meshes/bell-pepper.obj")).unwrap(),
+    );
+    scene
+}
+
+/// Fingers closed together (the four-finger demo's cherry tomato, where all four meet)
+/// give byte-identical JSON for 1 and 2 threads: the joint closing of one object runs
+/// on one thread, in a fixed order.
+#[test]
+fn json_with_fingers_closed_together_is_identical_for_1_and_2_threads() {
+    let tmp = TempDir::new("check-demo-4f-threads");
+    let scene = four_finger_demo_without_sweep(&tmp).display().to_string();
+    let args = ["check", scene.as_str(), "--json", "-"];
+    let one = arcfinger_env(&crate::util::root(), &args, &[("RAYON_NUM_THREADS", "1")]).expect_code(1);
+    let two = arcfinger_env(&crate::util::root(), &args, &[("RAYON_NUM_THREADS", "2")]).expect_code(1);
+    assert!(one.stdout.contains("\"cherry-tomato\""));
+    assert!(one.stdout == two.stdout, "the JSON differs between 1 and 2 threads");
+}
+
 /// The four-finger demo at its 100 kPa supply (checked without its sweep, for speed):
 /// seven objects pass; three fail, each for its own physical reason. The honey jar is
 /// too heavy (holding margin alone, at the Coulomb bound of its side contacts); the
@@ -341,14 +369,7 @@ fn bundled_demo_fails_only_the_heavy_jar_and_on_holding() {
 #[test]
 fn four_finger_demo_fails_the_heavy_the_small_and_the_fragile() {
     let tmp = TempDir::new("check-demo-4f");
-    let text = std::fs::read_to_string(repo("scenes/packing-line-4f.ron")).unwrap();
-    let sweep = "sweep_kpa: Some((0.0, 120.0, 5.0)),";
-    assert!(text.contains(sweep), "the demo sweeps 25 pressures, 0 to 120 kPa");
-    let scene = tmp.write("4f.ron", &text.replace(sweep, "sweep_kpa: None,"));
-    tmp.write(
-        "meshes/bell-pepper.obj",
-        &std::fs::read_to_string(repo("scenes/meshes/bell-pepper.obj")).unwrap(),
-    );
+    let scene = four_finger_demo_without_sweep(&tmp);
     let run = arcfinger(&["check", &scene.display().to_string(), "--json", "-"]).expect_code(1);
     let doc: serde_json::Value = serde_json::from_str(&run.stdout).unwrap();
     let objects = objects_by_name(&doc);

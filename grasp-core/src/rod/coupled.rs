@@ -82,14 +82,6 @@ fn rows_dot(row: &Row, col: &Row) -> f64 {
 /// pivoting (default: the gaps closed now). With one rod this is exactly
 /// [`super::contact_step`].
 ///
-/// With two or more rods, the exact step on the active set is taken even where the
-/// inertia test finds the stationary point not a minimum: two fingertips pressing on
-/// each other without friction are in equilibrium but unstable against sliding past each
-/// other sideways (friction holds them in practice), and with one rod block per finger
-/// each block may be indefinite while only the gap between them holds them. That
-/// equilibrium is the one the closing reports; the shifted Hessian alone approaches it
-/// only linearly.
-///
 /// # Errors
 /// As [`super::contact_step`]; also a gap part naming a rod that is not in `blocks`.
 pub fn coupled_step(
@@ -192,10 +184,7 @@ pub fn coupled_step(
     // exact Hessian's Newton step converges quadratically where it is a minimum's
     if regularised {
         let gradients: Vec<&[f64]> = tangents.iter().map(|t| t.gradient.as_slice()).collect();
-        let minimum_only = blocks.len() == 1;
-        if let Some((f, d)) =
-            exact_step(&diagonals, &uppers, &gradients, &rows, &values, &active, minimum_only)
-        {
+        if let Some((f, d)) = exact_step(&diagonals, &uppers, &gradients, &rows, &values, &active) {
             forces = f;
             steps = d;
         }
@@ -225,8 +214,7 @@ pub fn coupled_step(
 /// Accepted only if it is a minimum's step — `S` has as many negative eigenvalues as `H`
 /// (Haynsworth's inertia additivity; the inertia test of Nocedal & Wright, "Numerical
 /// Optimization", 2nd ed., 2006, section 16.2) — with compressive forces and no inactive
-/// gap crossed; `None` otherwise. Without `minimum_only` the step is also taken at a
-/// stationary point that is not a minimum (see [`coupled_step`]).
+/// gap crossed; `None` otherwise.
 fn exact_step(
     diagonals: &[Vec<f64>],
     uppers: &[Vec<f64>],
@@ -234,7 +222,6 @@ fn exact_step(
     rows: &[Row],
     values: &[f64],
     active: &[bool],
-    minimum_only: bool,
 ) -> Option<(Vec<f64>, Vec<Vec<f64>>)> {
     let mut factors = Vec::with_capacity(diagonals.len());
     for (d, u) in diagonals.iter().zip(uppers) {
@@ -254,7 +241,7 @@ fn exact_step(
     let mut forces = vec![0.0; values.len()];
     let mut steps: Vec<Vec<f64>> = y.iter().map(|yb| yb.iter().map(|v| -v).collect()).collect();
     if k == 0 {
-        if negative > 0 && minimum_only {
+        if negative > 0 {
             return None;
         }
     } else {
@@ -262,7 +249,7 @@ fn exact_step(
             0.5 * (rows_dot(&rows[idx[a]], &cols[b]) + rows_dot(&rows[idx[b]], &cols[a]))
         });
         let negative_s = s.clone().symmetric_eigenvalues().iter().filter(|e| **e < 0.0).count();
-        if negative_s != negative && minimum_only {
+        if negative_s != negative {
             return None;
         }
         let rhs = nalgebra::DVector::from_fn(k, |a, _| row_dot(&rows[idx[a]], &y) - values[idx[a]]);

@@ -31,9 +31,10 @@
 //! same pressure with gaps against obstacles up to 4, 16, ... times farther (at most the
 //! finger's length), since the nearest face of a deep overlap may be the far one.
 //!
-//! Neighbouring fingers are not obstacles of each other in this stage: each finger closes
-//! against the object and the palm, and bodies of different fingers that intersect in the
-//! closed state are reported as interference (a failure of the grasp).
+//! Each finger closes here against the object and the palm alone. Neighbouring fingers
+//! are obstacles of each other too (DESIGN 3.3): fingers whose closed bodies intersect
+//! are closed again together by [`super::coupled`], and any overlap left after that is
+//! reported as interference (a failure of the grasp).
 
 use parry3d_f64::bounding_volume::BoundingVolume;
 use parry3d_f64::query;
@@ -61,12 +62,12 @@ pub const PENETRATION_TOLERANCE: f64 = 1e-5;
 /// pressure step is retried smaller.
 const MAX_STEP_DEPTH: f64 = 0.25;
 /// Pressure steps of the ramp from zero to the supply pressure.
-const RAMP_STEPS: usize = 4;
+pub(super) const RAMP_STEPS: usize = 4;
 /// SQP steps (each with a fresh linearisation of the contact geometry) allowed per
 /// pressure step.
-const MAX_STEPS: usize = 60;
+pub(super) const MAX_STEPS: usize = 60;
 /// Largest angle step (rad) of a settled state: the next step would not move it.
-const STEP_TOLERANCE: f64 = 1e-9;
+pub(super) const STEP_TOLERANCE: f64 = 1e-9;
 /// Pressure-step halvings allowed in one closing.
 pub const MAX_HALVINGS: usize = 12;
 
@@ -141,20 +142,20 @@ pub fn weight_loads(actuator: &Actuator, rod: &Rod, frame: &FingerFrame) -> Vec<
 
 /// One linearised contact: which piece, the gap, and how to turn its force into a
 /// world-frame contact.
-struct Linearised {
-    piece: PieceKind,
-    gap: PointGap,
+pub(super) struct Linearised {
+    pub(super) piece: PieceKind,
+    pub(super) gap: PointGap,
     /// In-plane share of the unit world normal, `|n_p|`.
-    in_plane: f64,
+    pub(super) in_plane: f64,
     /// Witness on the obstacle (m, gripper frame).
-    point: Vec3,
+    pub(super) point: Vec3,
     /// World normal from the finger into the obstacle.
-    normal: Vec3,
+    pub(super) normal: Vec3,
     /// Against the object (true) or the palm.
-    on_object: bool,
+    pub(super) on_object: bool,
 }
 
-fn linearise(
+pub(super) fn linearise(
     rod: &Rod,
     angles: &[f64],
     body: &FingerBody,
@@ -214,7 +215,7 @@ fn linearise(
     Ok((out, penetration, too_deep))
 }
 
-fn element_index(kind: PieceKind, elements: usize) -> usize {
+pub(super) fn element_index(kind: PieceKind, elements: usize) -> usize {
     match kind {
         PieceKind::Base => 0,
         PieceKind::Element(i) => i,
@@ -303,12 +304,7 @@ fn settle(
         // pieces, each linearisation sending the finger toward the other) halves the
         // move allowed; steps taken whole let it grow back to half the prediction
         let mut d = step.step;
-        let turns_back = previous_step.as_ref().is_some_and(|q: &Vec<f64>| {
-            let dot: f64 = q.iter().zip(&d).map(|(a, b)| a * b).sum();
-            let norms =
-                q.iter().map(|v| v * v).sum::<f64>().sqrt() * d.iter().map(|v| v * v).sum::<f64>().sqrt();
-            dot < -0.3 * norms
-        });
+        let turns_back = turns_back(previous_step.as_deref(), &d);
         if turns_back {
             max_move *= 0.5;
         }
@@ -334,8 +330,29 @@ fn settle(
     Ok(Settle::Failed)
 }
 
+/// The report of a closing before its first step.
+pub(super) fn fresh_report() -> SolveReport {
+    SolveReport {
+        status: SolveStatus::Converged,
+        iterations: 0,
+        residual: 0.0,
+        constraint_residual: 0.0,
+        load_steps: 0,
+    }
+}
+
+/// A step that turns back on the `previous` one (by more than about 107°).
+pub(super) fn turns_back(previous: Option<&[f64]>, step: &[f64]) -> bool {
+    previous.is_some_and(|q| {
+        let dot: f64 = q.iter().zip(step).map(|(a, b)| a * b).sum();
+        let norms =
+            q.iter().map(|v| v * v).sum::<f64>().sqrt() * step.iter().map(|v| v * v).sum::<f64>().sqrt();
+        dot < -0.3 * norms
+    })
+}
+
 /// A gap closed (or nearly) at the current configuration: it starts active.
-fn is_closed(rod: &Rod, angles: &[f64], l: &Linearised) -> bool {
+pub(super) fn is_closed(rod: &Rod, angles: &[f64], l: &Linearised) -> bool {
     rod.position(angles, l.gap.point).is_ok_and(|x| l.gap.normal.dot(x) - l.gap.offset <= GAP_TOLERANCE)
 }
 
@@ -366,13 +383,7 @@ pub fn close_finger(
     // from straight, ramp in RAMP_STEPS; from a nearby closed state (a sweep), try the
     // whole step first
     let mut dp = if start.is_some() { pressure - p_done } else { (pressure - p_done) / RAMP_STEPS as f64 };
-    let mut report = SolveReport {
-        status: SolveStatus::Converged,
-        iterations: 0,
-        residual: 0.0,
-        constraint_residual: 0.0,
-        load_steps: 0,
-    };
+    let mut report = fresh_report();
     let mut last: Option<StepResult> = None;
     let mut halvings = 0;
     let mut prediction = PREDICTION;
@@ -428,29 +439,35 @@ pub fn close_finger(
     }
     let body = FingerBody::new(rod, &angles, &actuator.section, frame).map_err(|e| e.to_string())?;
     let (contacts, penetration) = match last {
-        Some(step) => {
-            let contacts = step
-                .lin
-                .iter()
-                .zip(&step.forces)
-                .filter(|(l, f)| l.on_object && **f > 0.0)
-                .map(|(l, f)| ContactReport {
-                    finger,
-                    element: element_index(l.piece, rod.elements),
-                    point: l.point,
-                    normal: l.normal,
-                    normal_force: f / l.in_plane,
-                })
-                .collect();
-            (contacts, step.penetration)
-        }
+        Some(step) => (object_contacts(finger, rod, &step.lin, &step.forces), step.penetration),
         None => (Vec::new(), 0.0),
     };
     Ok(ClosedFinger { angles, body, contacts, penetration, report })
 }
 
+/// The contacts with the object among linearised contacts `lin` with forces `forces`
+/// (the scaled gap forces of [`linearise`]): those pushing, in world terms.
+pub(super) fn object_contacts(
+    finger: usize,
+    rod: &Rod,
+    lin: &[Linearised],
+    forces: &[f64],
+) -> Vec<ContactReport> {
+    lin.iter()
+        .zip(forces)
+        .filter(|(l, f)| l.on_object && **f > 0.0)
+        .map(|(l, f)| ContactReport {
+            finger,
+            element: element_index(l.piece, rod.elements),
+            point: l.point,
+            normal: l.normal,
+            normal_force: f / l.in_plane,
+        })
+        .collect()
+}
+
 #[cfg(test)]
-mod tests {
+pub(super) mod tests {
     use super::*;
     use crate::actuator::Fiber;
     use crate::geometry::palm_body;
@@ -490,7 +507,6 @@ mod tests {
     /// the 2 % of the largest moment allowed.
     #[test]
     fn every_reported_contact_set_balances_the_finger() {
-        use crate::math::Vec2;
         let a = demo_finger();
         let rod = Rod::of_actuator(&a, 40).unwrap();
         let frame = FingerFrame::new(0.0, 0.065, 0.0).unwrap();
@@ -507,55 +523,73 @@ mod tests {
             let c = close_finger(0, &a, &rod, frame, SectionModel::WallPressure, p, &obs, None).unwrap();
             assert_eq!(c.report.status, SolveStatus::Converged, "{shape:?}");
             assert!(!c.contacts.is_empty(), "{shape:?}: touches");
-            // loads in the finger's plane: (arc length, point, force)
-            let mut loads: Vec<(f64, Vec2, Vec2)> = Vec::new();
-            for k in &c.contacts {
-                let piece = c
-                    .body
-                    .pieces
-                    .iter()
-                    .position(|q| match q.kind {
-                        PieceKind::Element(e) => e == k.element,
-                        PieceKind::Tip => k.element == rod.elements,
-                        PieceKind::Base => false,
-                    })
-                    .unwrap();
-                let (mp, _) = c.body.material_point(piece, k.point).unwrap();
-                let (x, _) = frame.to_plane(k.point);
-                let (f, _) = frame.plane_direction(-k.normal_force * k.normal);
-                loads.push((mp.s, x, f));
-            }
-            for w in weight_loads(&a, &rod, &frame) {
-                loads.push((w.point.s, rod.position(&c.angles, w.point).unwrap(), w.force));
-            }
-            let law = a.law(p, SectionModel::WallPressure);
-            let h = rod.element_length();
-            let kappas = rod.curvatures(&c.angles);
-            let mut pairs = Vec::new();
-            for (j, &kappa) in kappas.iter().enumerate() {
-                let s_mid = rod.base_length + h * (j as f64 + 0.5);
-                let x_mid = rod.position(&c.angles, MaterialPoint { s: s_mid, y: 0.0 }).unwrap();
-                // moment about the cut of the loads beyond it (2-D cross product in (u, w))
-                let beyond: f64 = loads
-                    .iter()
-                    .filter(|(s, _, _)| *s > s_mid)
-                    .map(|(_, x, f)| {
-                        let r = *x - x_mid;
-                        r.x * f.y - r.y * f.x
-                    })
-                    .sum();
-                pairs.push((law.moment(kappa).unwrap().0, beyond));
-            }
-            let scale = pairs.iter().map(|(m, _)| m.abs()).fold(0.0, f64::max);
-            assert!(scale > 0.0);
-            // the internal moment balances the distal loads: m = -(moment of the loads)
-            // in this sign convention (kappa > 0 toward +u, angles from +w toward +u)
-            for (j, (m, beyond)) in pairs.iter().enumerate() {
-                assert!(
-                    (m + beyond).abs() <= 0.02 * scale,
-                    "{shape:?}: element {j}: m = {m:.5e}, loads beyond give {beyond:.5e} (scale {scale:.3e})"
-                );
-            }
+            let loads: Vec<(usize, Vec3, Vec3)> =
+                c.contacts.iter().map(|k| (k.element, k.point, -k.normal_force * k.normal)).collect();
+            assert_balances(&a, &rod, p, &c, &loads, &format!("{shape:?}"));
+        }
+    }
+
+    /// The check of [`every_reported_contact_set_balances_the_finger`] for closed finger
+    /// `c` of actuator `a` at pressure `p` under the contact forces `contacts` (element,
+    /// point and world force on the finger) and its weight.
+    pub(crate) fn assert_balances(
+        a: &Actuator,
+        rod: &Rod,
+        p: f64,
+        c: &ClosedFinger,
+        contacts: &[(usize, Vec3, Vec3)],
+        what: &str,
+    ) {
+        use crate::math::Vec2;
+        let frame = c.body.frame;
+        // loads in the finger's plane: (arc length, point, force)
+        let mut loads: Vec<(f64, Vec2, Vec2)> = Vec::new();
+        for &(element, point, force) in contacts {
+            let piece = c
+                .body
+                .pieces
+                .iter()
+                .position(|q| match q.kind {
+                    PieceKind::Element(e) => e == element,
+                    PieceKind::Tip => element == rod.elements,
+                    PieceKind::Base => false,
+                })
+                .unwrap();
+            let (mp, _) = c.body.material_point(piece, point).unwrap();
+            let (x, _) = frame.to_plane(point);
+            let (f, _) = frame.plane_direction(force);
+            loads.push((mp.s, x, f));
+        }
+        for w in weight_loads(a, rod, &frame) {
+            loads.push((w.point.s, rod.position(&c.angles, w.point).unwrap(), w.force));
+        }
+        let law = a.law(p, SectionModel::WallPressure);
+        let h = rod.element_length();
+        let kappas = rod.curvatures(&c.angles);
+        let mut pairs = Vec::new();
+        for (j, &kappa) in kappas.iter().enumerate() {
+            let s_mid = rod.base_length + h * (j as f64 + 0.5);
+            let x_mid = rod.position(&c.angles, MaterialPoint { s: s_mid, y: 0.0 }).unwrap();
+            // moment about the cut of the loads beyond it (2-D cross product in (u, w))
+            let beyond: f64 = loads
+                .iter()
+                .filter(|(s, _, _)| *s > s_mid)
+                .map(|(_, x, f)| {
+                    let r = *x - x_mid;
+                    r.x * f.y - r.y * f.x
+                })
+                .sum();
+            pairs.push((law.moment(kappa).unwrap().0, beyond));
+        }
+        let scale = pairs.iter().map(|(m, _)| m.abs()).fold(0.0, f64::max);
+        assert!(scale > 0.0);
+        // the internal moment balances the distal loads: m = -(moment of the loads)
+        // in this sign convention (kappa > 0 toward +u, angles from +w toward +u)
+        for (j, (m, beyond)) in pairs.iter().enumerate() {
+            assert!(
+                (m + beyond).abs() <= 0.02 * scale,
+                "{what}: element {j}: m = {m:.5e}, loads beyond give {beyond:.5e} (scale {scale:.3e})"
+            );
         }
     }
 

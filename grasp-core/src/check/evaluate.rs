@@ -5,18 +5,21 @@
 //! contacts give the holding margins of the lift and lateral load cases (a second-order
 //! cone program, [`crate::grasp::holding`]) and the Ferrari–Canny epsilon
 //! ([`crate::grasp::quality`]); the closed fingers and the palm give the enclosure
-//! ([`crate::grasp::enclosure`]); bodies of different fingers that intersect in the closed
-//! state are interference. The verdict passes only if every criterion of the scene holds.
+//! ([`crate::grasp::enclosure`]). Fingers whose independent closings intersect are
+//! closed again together, each an obstacle of the others ([`super::coupled`]); bodies of
+//! different fingers that still intersect then are interference. The verdict passes only if every criterion of the scene holds.
 //!
 //! Objects are independent and evaluated in parallel (rayon); each object's sweep runs in
 //! ascending pressure, each closing starting from the previous pressure's closed fingers.
 //! Results are collected in scene order, so they do not depend on the thread count.
 
+use parry3d_f64::bounding_volume::BoundingVolume;
 use parry3d_f64::query;
 use parry3d_f64::shape::SharedShape;
 use rayon::prelude::*;
 
 use super::closing::{ClosedFinger, Obstacles, close_finger};
+use super::coupled::{Member, close_together};
 use super::{
     CheckError, CheckReport, CheckSettings, ContactReport, Failure, FingerReport, HoldingMargins,
     ObjectReport, Verdict,
@@ -72,15 +75,18 @@ fn interference(bodies: &[&FingerBody]) -> Vec<(usize, usize)> {
     for i in 0..bodies.len() {
         for j in i + 1..bodies.len() {
             let (a, b) = (bodies[i], bodies[j]);
-            if !parry3d_f64::bounding_volume::BoundingVolume::intersects(&a.aabb(), &b.aabb()) {
+            if !a.aabb().intersects(&b.aabb()) {
                 continue;
             }
+            let boxes: Vec<_> = b.pieces.iter().map(|q| q.shape.compute_aabb(&q.pose)).collect();
             let hit = a.pieces.iter().any(|p| {
-                b.pieces.iter().any(|q| {
-                    matches!(
-                        query::contact(&p.pose, p.shape.as_ref(), &q.pose, q.shape.as_ref(), 0.0),
-                        Ok(Some(c)) if c.dist < -INTERFERENCE_TOLERANCE
-                    )
+                let pbox = p.shape.compute_aabb(&p.pose);
+                b.pieces.iter().zip(&boxes).any(|(q, qbox)| {
+                    pbox.intersects(qbox)
+                        && matches!(
+                            query::contact(&p.pose, p.shape.as_ref(), &q.pose, q.shape.as_ref(), 0.0),
+                            Ok(Some(c)) if c.dist < -INTERFERENCE_TOLERANCE
+                        )
                 })
             });
             if hit {
@@ -89,6 +95,27 @@ fn interference(bodies: &[&FingerBody]) -> Vec<(usize, usize)> {
         }
     }
     pairs
+}
+
+/// The connected groups (each sorted, in order of their first finger) of `count`
+/// fingers linked by the interfering `pairs`; fingers in no pair are left out.
+fn groups(pairs: &[(usize, usize)], count: usize) -> Vec<Vec<usize>> {
+    let mut label: Vec<usize> = (0..count).collect();
+    for _ in 0..count {
+        for &(i, j) in pairs {
+            let m = label[i].min(label[j]);
+            label[i] = m;
+            label[j] = m;
+        }
+    }
+    let mut out: Vec<Vec<usize>> = Vec::new();
+    for root in 0..count {
+        let g: Vec<usize> = (0..count).filter(|&k| label[k] == root).collect();
+        if g.len() > 1 {
+            out.push(g);
+        }
+    }
+    out
 }
 
 /// How much of an evaluation to compute.
@@ -195,6 +222,35 @@ fn evaluate(
             });
         }
         closed.push(c);
+    }
+    // fingers that run into each other close again, together (each an obstacle of the
+    // others), from open
+    let bodies: Vec<&FingerBody> = closed.iter().map(|c| &c.body).collect();
+    for group in groups(&interference(&bodies), closed.len()) {
+        let members: Vec<Member<'_>> = group
+            .iter()
+            .map(|&i| Member {
+                index: i,
+                actuator: rig.actuator(i),
+                rod: &rig.rods[i],
+                frame: rig.frames[i],
+                model: rig.actuator(i).section_model,
+            })
+            .collect();
+        let together = close_together(&members, pressure, &obstacles).map_err(CheckError::Geometry)?;
+        let status = together.closed.first().map_or(SolveStatus::Converged, |c| c.report.status);
+        if status != SolveStatus::Converged {
+            failures.push(Failure::NotConverged {
+                what: format!(
+                    "fingers {group:?} closing together on \"{}\" ({})",
+                    object.name,
+                    status.name()
+                ),
+            });
+        }
+        for (&i, c) in group.iter().zip(together.closed) {
+            closed[i] = c;
+        }
     }
     let contacts: Vec<ContactReport> = closed.iter().flat_map(|c| c.contacts.iter().copied()).collect();
     let mut touching: Vec<usize> = contacts.iter().map(|c| c.finger).collect();

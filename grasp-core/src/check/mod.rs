@@ -10,6 +10,7 @@
 //! A contact normal points from the finger into the object.
 
 pub mod closing;
+pub mod coupled;
 mod evaluate;
 pub mod robust;
 mod single;

@@ -32,11 +32,13 @@
 //! force `-lambda * direction` to the rod.
 
 mod blocked;
+mod coupled;
 mod solve;
 mod sqp;
 mod unilateral;
 
 pub use blocked::{BlockedForce, BlockedOutcome, blocked_force_curve, blocked_tip_force};
+pub use coupled::{CoupledStep, RodBlock, SharedGap, coupled_step};
 pub use solve::{RESIDUAL_TOLERANCE, RodSolution, SolveReport, SolveStatus, solve, solve_within};
 pub use sqp::{ContactStep, MAX_STEP_RAD, SQP_ITERATIONS, contact_step, limit_step, solve_with_gaps_sqp};
 pub use unilateral::{ContactSolution, GAP_TOLERANCE, PointGap, solve_with_gaps};

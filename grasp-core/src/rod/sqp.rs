@@ -24,8 +24,11 @@
 //!
 //! The closing stage re-linearises the contact geometry between steps (the gaps change
 //! with the configuration); [`solve_with_gaps_sqp`] iterates the step on fixed gaps.
+//! [`contact_step`] is the one-rod case of [`super::coupled_step`], which takes several
+//! rods at once with gaps shared between two of them (fingers touching each other).
 
-use super::solve::{point_derivatives, potential_tangent};
+use super::coupled::{RodBlock, SharedGap, coupled_step};
+use super::solve::point_derivatives;
 use super::{
     ContactSolution, MomentLaw, PointGap, PointLoad, Rod, RodError, RodSolution, SolveReport, SolveStatus,
 };
@@ -54,7 +57,7 @@ pub struct ContactStep {
 
 /// A tridiagonal `L D L^T` factorisation: `H = L D L^T`, `L` unit lower bidiagonal with
 /// `lower[k] = L[k+1][k]`.
-struct Tridiagonal {
+pub(super) struct Tridiagonal {
     d: Vec<f64>,
     lower: Vec<f64>,
 }
@@ -62,12 +65,12 @@ struct Tridiagonal {
 impl Tridiagonal {
     /// Factors `H` (`diagonal`, `upper`) plus `shift` on the diagonal; `None` unless every
     /// pivot is positive beyond round-off.
-    fn factor(diagonal: &[f64], upper: &[f64], shift: f64) -> Option<Self> {
+    pub(super) fn factor(diagonal: &[f64], upper: &[f64], shift: f64) -> Option<Self> {
         Self::factor_with(diagonal, upper, shift, true)
     }
 
     /// Factors an indefinite `H`: `None` only if a pivot vanishes (to round-off).
-    fn factor_indefinite(diagonal: &[f64], upper: &[f64]) -> Option<Self> {
+    pub(super) fn factor_indefinite(diagonal: &[f64], upper: &[f64]) -> Option<Self> {
         Self::factor_with(diagonal, upper, 0.0, false)
     }
 
@@ -93,7 +96,12 @@ impl Tridiagonal {
         Some(Self { d, lower })
     }
 
-    fn solve(&self, b: &mut [f64]) {
+    /// Negative pivots: `H`'s negative eigenvalues (Sylvester's law of inertia).
+    pub(super) fn negative_pivots(&self) -> usize {
+        self.d.iter().filter(|p| **p < 0.0).count()
+    }
+
+    pub(super) fn solve(&self, b: &mut [f64]) {
         let n = b.len();
         for k in 1..n {
             b[k] -= self.lower[k - 1] * b[k - 1];
@@ -111,7 +119,11 @@ impl Tridiagonal {
 type Second = Vec<(usize, usize, f64)>;
 
 /// Value, gradient row (dense) and second derivatives of one gap.
-fn gap_terms(rod: &Rod, angles: &[f64], gap: &PointGap) -> Result<(f64, Vec<f64>, Second), RodError> {
+pub(super) fn gap_terms(
+    rod: &Rod,
+    angles: &[f64],
+    gap: &PointGap,
+) -> Result<(f64, Vec<f64>, Second), RodError> {
     let value = gap.normal.dot(rod.position(angles, gap.point)?) - gap.offset;
     let d = point_derivatives(rod, angles, gap.point)?;
     let mut row = vec![0.0; rod.dofs()];
@@ -131,7 +143,7 @@ fn gap_terms(rod: &Rod, angles: &[f64], gap: &PointGap) -> Result<(f64, Vec<f64>
 /// (`M` row-major, `m x m`) by principal pivoting from the active set `seed`; `None` if
 /// the pivoting runs out of its bounded number of pivots or a principal block is
 /// singular.
-fn complementarity(m: &[f64], q: &[f64], seed: &[bool]) -> Option<(Vec<f64>, Vec<bool>)> {
+pub(super) fn complementarity(m: &[f64], q: &[f64], seed: &[bool]) -> Option<(Vec<f64>, Vec<bool>)> {
     let size = q.len();
     let mut active = seed.to_vec();
     let f_scale = m.iter().fold(0.0f64, |a, v| a.max(v.abs())).max(f64::MIN_POSITIVE);
@@ -175,7 +187,7 @@ fn complementarity(m: &[f64], q: &[f64], seed: &[bool]) -> Option<(Vec<f64>, Vec
 
 /// The moment scale of relative residuals with contact forces: the largest of `|m(0)|`,
 /// `L sum |F|` over the dead loads and contact forces, and the moment of a 1 mrad bend.
-fn moment_scale(
+pub(super) fn moment_scale(
     rod: &Rod,
     law: &dyn MomentLaw,
     loads: &[PointLoad],
@@ -210,161 +222,18 @@ pub fn contact_step(
     curvature_forces: &[f64],
     seed: Option<&[bool]>,
 ) -> Result<ContactStep, RodError> {
-    let nd = rod.dofs();
-    if angles.len() != nd {
-        return Err(RodError::BadInitialGuess { got: angles.len(), expected: nd });
-    }
-    if curvature_forces.len() != gaps.len() || seed.is_some_and(|s| s.len() != gaps.len()) {
-        return Err(RodError::BadInput("one curvature force and seed flag per gap"));
-    }
-    let tangent = potential_tangent(rod, law, loads, angles, 1.0, true)
-        .ok_or(RodError::BadInput("the moment law cannot be evaluated at these angles"))?;
-    let mut diagonal = tangent.diagonal.clone();
-    let mut upper = tangent.upper.clone();
-    let mut values = Vec::with_capacity(gaps.len());
-    let mut rows = Vec::with_capacity(gaps.len());
-    for (gap, &fc) in gaps.iter().zip(curvature_forces) {
-        let (value, row, second) = gap_terms(rod, angles, gap)?;
-        for (k, l, v) in second {
-            if k == l {
-                diagonal[k] -= fc * v;
-            } else {
-                upper[k] -= fc * v;
-            }
-        }
-        values.push(value);
-        rows.push(row);
-    }
-    // H positive definite, shifted if need be
-    let stiffness = diagonal.iter().fold(0.0f64, |a, v| a.max(v.abs())).max(f64::MIN_POSITIVE);
-    let mut shift = 0.0;
-    let mut regularised = false;
-    let factor = loop {
-        if let Some(f) = Tridiagonal::factor(&diagonal, &upper, shift) {
-            break f;
-        }
-        regularised = true;
-        shift = if shift == 0.0 { 1e-6 * stiffness } else { 10.0 * shift };
-        if shift > 1e6 * stiffness {
-            return Err(RodError::BadInput("the rod's stiffness matrix cannot be made positive definite"));
-        }
-    };
-    // X = H^-1 G^T (one column per gap), y = H^-1 r
-    let columns: Vec<Vec<f64>> = rows
-        .iter()
-        .map(|row| {
-            let mut c = row.clone();
-            factor.solve(&mut c);
-            c
-        })
-        .collect();
-    let mut y = tangent.gradient.clone();
-    factor.solve(&mut y);
-    let m = gaps.len();
-    let dot = |a: &[f64], b: &[f64]| a.iter().zip(b).map(|(x, z)| x * z).sum::<f64>();
-    let mut mm = vec![0.0; m * m];
-    let mut q = vec![0.0; m];
-    for i in 0..m {
-        q[i] = values[i] - dot(&rows[i], &y);
-        for j in 0..m {
-            mm[i * m + j] = dot(&rows[i], &columns[j]);
-        }
-    }
-    let seed: Vec<bool> = match seed {
-        Some(s) => s.to_vec(),
-        None => values.iter().map(|&g| g <= GAP_TOLERANCE).collect(),
-    };
-    let (mut forces, active) = complementarity(&mm, &q, &seed)
-        .ok_or(RodError::BadInput("the contact program has no solution (degenerate contacts)"))?;
-    // d = -H^-1 (r - G^T f) = -y + X f
-    let mut step: Vec<f64> = y.iter().map(|v| -v).collect();
-    for (c, &f) in forces.iter().enumerate() {
-        if f != 0.0 {
-            for k in 0..nd {
-                step[k] += columns[c][k] * f;
-            }
-        }
-    }
-    // with a shifted Hessian the step above only descends; on its active set, the
-    // exact Hessian's Newton step converges quadratically where it is a minimum's
-    if regularised
-        && let Some((f, d)) = exact_step(&diagonal, &upper, &tangent.gradient, &rows, &values, &active)
-    {
-        forces = f;
-        step = d;
-    }
-    // residual r - G^T f at the current angles
-    let mut stationarity = tangent.gradient.clone();
-    for (c, &f) in forces.iter().enumerate() {
-        for k in 0..nd {
-            stationarity[k] -= rows[c][k] * f;
-        }
-    }
-    let scale = moment_scale(rod, law, loads, &forces)?;
-    let residual = stationarity.iter().fold(0.0f64, |a, v| a.max(v.abs())) / scale;
-    Ok(ContactStep { step, forces, active, residual, gaps: values, regularised })
-}
-
-/// The Newton step of the program with the gaps of `active` held closed as equalities,
-/// with the exact Hessian `H` (tridiagonal, possibly indefinite): `(f_A, d)` from
-/// `S f_A = G_A H^-1 r - g_A`, `S = G_A H^-1 G_A^T`, `d = H^-1 (G_A^T f_A - r)`.
-/// Accepted only if it is a minimum's step — the KKT matrix has `n` positive and `k`
-/// negative eigenvalues, i.e. `S` has as many negative eigenvalues as `H` (Haynsworth's
-/// inertia additivity; the inertia test of Nocedal & Wright 2006, section 16.2) — with
-/// compressive forces and no inactive gap crossed; `None` otherwise.
-fn exact_step(
-    diagonal: &[f64],
-    upper: &[f64],
-    gradient: &[f64],
-    rows: &[Vec<f64>],
-    values: &[f64],
-    active: &[bool],
-) -> Option<(Vec<f64>, Vec<f64>)> {
-    let factor = Tridiagonal::factor_indefinite(diagonal, upper)?;
-    let negative = factor.d.iter().filter(|p| **p < 0.0).count();
-    let idx: Vec<usize> = (0..active.len()).filter(|&i| active[i]).collect();
-    let dot = |a: &[f64], b: &[f64]| a.iter().zip(b).map(|(x, z)| x * z).sum::<f64>();
-    let mut y = gradient.to_vec();
-    factor.solve(&mut y);
-    let cols: Vec<Vec<f64>> = idx
-        .iter()
-        .map(|&c| {
-            let mut v = rows[c].clone();
-            factor.solve(&mut v);
-            v
-        })
-        .collect();
-    let k = idx.len();
-    let mut forces = vec![0.0; values.len()];
-    let mut step: Vec<f64> = y.iter().map(|v| -v).collect();
-    if k == 0 {
-        if negative > 0 {
-            return None;
-        }
-    } else {
-        let s = nalgebra::DMatrix::from_fn(k, k, |a, b| {
-            0.5 * (dot(&rows[idx[a]], &cols[b]) + dot(&rows[idx[b]], &cols[a]))
-        });
-        let negative_s = s.clone().symmetric_eigenvalues().iter().filter(|e| **e < 0.0).count();
-        if negative_s != negative {
-            return None;
-        }
-        let rhs = nalgebra::DVector::from_fn(k, |a, _| dot(&rows[idx[a]], &y) - values[idx[a]]);
-        let f_a = s.lu().solve(&rhs)?;
-        let f_max = f_a.iter().fold(0.0f64, |m, v| m.max(v.abs()));
-        if f_a.iter().any(|f| !f.is_finite() || *f < -1e-12 * f_max) {
-            return None;
-        }
-        for (a, &c) in idx.iter().enumerate() {
-            forces[c] = f_a[a].max(0.0);
-            for (d, x) in step.iter_mut().zip(&cols[a]) {
-                *d += x * f_a[a];
-            }
-        }
-    }
-    let crossed =
-        (0..values.len()).any(|i| !active[i] && values[i] + dot(&rows[i], &step) < -1e-3 * GAP_TOLERANCE);
-    (!crossed && step.iter().all(|v| v.is_finite())).then_some((forces, step))
+    let block = RodBlock { rod, law, loads, angles };
+    let shared: Vec<SharedGap> = gaps.iter().map(|g| SharedGap { parts: vec![(0, *g)] }).collect();
+    let s = coupled_step(&[block], &shared, curvature_forces, seed)?;
+    let step = s.steps.into_iter().next().ok_or(RodError::BadInput("no rod"))?;
+    Ok(ContactStep {
+        step,
+        forces: s.forces,
+        active: s.active,
+        residual: s.residual,
+        gaps: s.gaps,
+        regularised: s.regularised,
+    })
 }
 
 /// Limits a step so that no angle changes by more than [`MAX_STEP_RAD`] and no node of

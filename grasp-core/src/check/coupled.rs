@@ -1,0 +1,507 @@
+//! Fingers that meet each other while closing (DESIGN 3.3: neighbouring fingers are
+//! unilateral obstacles of each other), solved together.
+//!
+//! Method: the fingers' rods are stacked into one SQP ([`crate::rod::coupled_step`]: a
+//! block-diagonal Hessian, one tridiagonal block per finger). Before every step the
+//! contact geometry is linearised as in [`super::closing`]: gaps against the object and
+//! the palm per finger, and between every two pieces of different fingers within
+//! [`PREDICTION`] a gap `g = d - n . (x_i - x_i0) + n . (x_j - x_j0)` (parry's closest
+//! points, `n` from finger `i` toward finger `j`), whose gradient has a block for each
+//! finger: `-n_p,i . dx_i/dpsi_i` with `n_p,i` the part of `n` in finger `i`'s plane, and
+//! `+n_p,j . dx_j/dpsi_j` in finger `j`'s (out-of-plane motion is rigid, DESIGN 3.3).
+//! Its force `f` pushes finger `i` by `-f n` and finger `j` by `+f n`: equal and
+//! opposite, and not on the object (only finger–object contacts are the grasp's). The
+//! pressure is ramped from zero (the fingers open) as in a single closing, so they meet
+//! rather than pass through each other; a pressure step that does not settle is halved,
+//! at most [`MAX_HALVINGS`] times, and then the closing is reported as not converged.
+
+use parry3d_f64::bounding_volume::BoundingVolume;
+use parry3d_f64::query;
+
+use super::closing::{
+    ClosedFinger, Linearised, MAX_HALVINGS, MAX_STEPS, Obstacles, PENETRATION_TOLERANCE, PREDICTION,
+    RAMP_STEPS, STEP_TOLERANCE, element_index, fresh_report, is_closed, linearise, object_contacts,
+    turns_back, weight_loads,
+};
+use crate::actuator::Actuator;
+use crate::geometry::{FingerBody, FingerFrame, PieceKind};
+use crate::math::Vec3;
+use crate::rod::{
+    PointGap, PointLoad, RESIDUAL_TOLERANCE, Rod, RodBlock, SharedGap, SolveReport, SolveStatus,
+    coupled_step, limit_step,
+};
+use crate::section::SectionModel;
+
+/// SQP steps allowed per pressure step of a coupled closing: more than a single
+/// finger's [`MAX_STEPS`], since contacts between two fingers' faces switch between
+/// piece pairs and the shifted steps then approach the equilibrium only linearly.
+const COUPLED_STEPS: usize = 4 * MAX_STEPS;
+
+/// One finger of a coupled closing.
+#[derive(Clone, Copy)]
+pub struct Member<'a> {
+    /// The finger's index on the hub.
+    pub index: usize,
+    /// Its actuator.
+    pub actuator: &'a Actuator,
+    /// Its rod.
+    pub rod: &'a Rod,
+    /// Its mount.
+    pub frame: FingerFrame,
+    /// The section model of its law.
+    pub model: SectionModel,
+}
+
+/// A contact between two fingers in a coupled closed state.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct FingerContact {
+    /// The two fingers (hub indices), `i` first.
+    pub fingers: (usize, usize),
+    /// The element of each (0-based; the tip cap is `elements`).
+    pub elements: (usize, usize),
+    /// The witness on each finger's body (m, gripper frame).
+    pub points: (Vec3, Vec3),
+    /// Unit normal from finger `i` toward finger `j`.
+    pub normal: Vec3,
+    /// Normal force (N): `-force * normal` on `i`, `+force * normal` on `j`.
+    pub force: f64,
+}
+
+/// The fingers of a coupled closing in their closed state.
+#[derive(Debug, Clone)]
+pub struct CoupledClosing {
+    /// Per member, in the order given.
+    pub closed: Vec<ClosedFinger>,
+    /// The finger–finger contacts with a force.
+    pub between: Vec<FingerContact>,
+}
+
+/// One linearised gap between two members (indices into the member list).
+struct Between {
+    members: (usize, usize),
+    pieces: (PieceKind, PieceKind),
+    gap: SharedGap,
+    points: (Vec3, Vec3),
+    normal: Vec3,
+}
+
+/// What a gap is against, to carry forces from one step to the next.
+#[derive(Clone, Copy, PartialEq)]
+enum Key {
+    Obstacle(usize, PieceKind, bool),
+    Finger(usize, PieceKind, usize, PieceKind),
+}
+
+/// Gaps between the pieces of different members within `PREDICTION`, and the deepest
+/// overlap among them (m).
+fn linearise_between(
+    members: &[Member<'_>],
+    angles: &[Vec<f64>],
+    bodies: &[FingerBody],
+) -> Result<(Vec<Between>, f64), String> {
+    let mut out: Vec<Between> = Vec::new();
+    let mut penetration = f64::NEG_INFINITY;
+    for a in 0..members.len() {
+        for b in a + 1..members.len() {
+            let (ba, bb) = (&bodies[a], &bodies[b]);
+            if !ba.aabb().loosened(PREDICTION).intersects(&bb.aabb()) {
+                continue;
+            }
+            let boxes: Vec<_> = bb.pieces.iter().map(|q| q.shape.compute_aabb(&q.pose)).collect();
+            for (pi, p) in ba.pieces.iter().enumerate() {
+                let pbox = p.shape.compute_aabb(&p.pose).loosened(PREDICTION);
+                for (qi, q) in bb.pieces.iter().enumerate() {
+                    if (p.kind == PieceKind::Base && q.kind == PieceKind::Base)
+                        || !pbox.intersects(&boxes[qi])
+                    {
+                        continue;
+                    }
+                    let c = query::contact(&p.pose, p.shape.as_ref(), &q.pose, q.shape.as_ref(), PREDICTION)
+                        .map_err(|_| "unsupported shape pair in the contact query".to_string())?;
+                    let Some(c) = c else { continue };
+                    penetration = penetration.max(-c.dist);
+                    let n: Vec3 = c.normal1;
+                    let (na, _) = ba.frame.plane_direction(n);
+                    let (nb, _) = bb.frame.plane_direction(n);
+                    if na.length() < 0.05 && nb.length() < 0.05 {
+                        continue; // neither finger can push that way
+                    }
+                    let (ma, _) = ba.material_point(pi, c.point1).map_err(|e| e.to_string())?;
+                    let (mb, _) = bb.material_point(qi, c.point2).map_err(|e| e.to_string())?;
+                    // neighbouring pieces share their end sections: the same gap twice
+                    let twin = out.iter().any(|l| {
+                        l.members == (a, b)
+                            && (l.gap.parts[0].1.point.s - ma.s).abs() < 1e-9
+                            && (l.gap.parts[1].1.point.s - mb.s).abs() < 1e-9
+                    });
+                    if twin {
+                        continue;
+                    }
+                    let xa = members[a].rod.position(&angles[a], ma).map_err(|e| e.to_string())?;
+                    let xb = members[b].rod.position(&angles[b], mb).map_err(|e| e.to_string())?;
+                    // g = d - n_a . (x_a - x_a0) + n_b . (x_b - x_b0)
+                    let gap = SharedGap {
+                        parts: vec![
+                            (a, PointGap { point: ma, normal: -na, offset: -na.dot(xa) - c.dist }),
+                            (b, PointGap { point: mb, normal: nb, offset: nb.dot(xb) }),
+                        ],
+                    };
+                    out.push(Between {
+                        members: (a, b),
+                        pieces: (p.kind, q.kind),
+                        gap,
+                        points: (c.point1, c.point2),
+                        normal: n,
+                    });
+                }
+            }
+        }
+    }
+    Ok((out, penetration))
+}
+
+/// A settled pressure step.
+struct Settled {
+    angles: Vec<Vec<f64>>,
+    own: Vec<Vec<Linearised>>,
+    own_forces: Vec<Vec<f64>>,
+    between: Vec<Between>,
+    between_forces: Vec<f64>,
+    penetration: f64,
+}
+
+/// The members settled at pressure `p` from `angles` by coupled SQP steps; `None` if
+/// they do not settle within [`MAX_STEPS`].
+fn settle(
+    members: &[Member<'_>],
+    loads: &[Vec<PointLoad>],
+    obstacles: &Obstacles<'_>,
+    p: f64,
+    angles: &[Vec<f64>],
+    report: &mut SolveReport,
+) -> Result<Option<Settled>, String> {
+    let laws: Vec<_> = members.iter().map(|m| m.actuator.law(p, m.model)).collect();
+    let mut angles = angles.to_vec();
+    let mut previous: Vec<(Key, f64, bool)> = Vec::new();
+    let mut previous_step: Option<Vec<f64>> = None;
+    let mut max_move = 0.5 * PREDICTION;
+    for _ in 0..COUPLED_STEPS {
+        report.iterations += 1;
+        let bodies: Vec<FingerBody> = members
+            .iter()
+            .zip(&angles)
+            .map(|(m, a)| FingerBody::new(m.rod, a, &m.actuator.section, m.frame).map_err(|e| e.to_string()))
+            .collect::<Result<_, _>>()?;
+        let mut penetration = 0.0f64;
+        let mut own = Vec::with_capacity(members.len());
+        for ((m, a), body) in members.iter().zip(&angles).zip(&bodies) {
+            let (lin, pen, _) = linearise(m.rod, a, body, obstacles, PREDICTION)?;
+            penetration = penetration.max(pen);
+            own.push(lin);
+        }
+        let (between, pen) = linearise_between(members, &angles, &bodies)?;
+        penetration = penetration.max(pen);
+        let mut gaps = Vec::new();
+        let mut keys = Vec::new();
+        let mut closed_now = Vec::new();
+        for (f, lin) in own.iter().enumerate() {
+            for l in lin {
+                gaps.push(SharedGap { parts: vec![(f, l.gap)] });
+                keys.push(Key::Obstacle(f, l.piece, l.on_object));
+                closed_now.push(is_closed(members[f].rod, &angles[f], l));
+            }
+        }
+        for l in &between {
+            keys.push(Key::Finger(l.members.0, l.pieces.0, l.members.1, l.pieces.1));
+            let value: f64 = l
+                .gap
+                .parts
+                .iter()
+                .map(|(f, g)| {
+                    members[*f].rod.position(&angles[*f], g.point).map_or(0.0, |x| g.normal.dot(x)) - g.offset
+                })
+                .sum();
+            closed_now.push(value <= crate::rod::GAP_TOLERANCE);
+            gaps.push(l.gap.clone());
+        }
+        let carried = |k: &Key| previous.iter().find(|q| q.0 == *k);
+        let curvature_forces: Vec<f64> = keys.iter().map(|k| carried(k).map_or(0.0, |q| q.1)).collect();
+        let seed: Option<Vec<bool>> = (!previous.is_empty())
+            .then(|| keys.iter().zip(&closed_now).map(|(k, c)| carried(k).map_or(*c, |q| q.2)).collect());
+        let blocks: Vec<RodBlock<'_>> = members
+            .iter()
+            .enumerate()
+            .map(|(f, m)| RodBlock { rod: m.rod, law: &laws[f], loads: &loads[f], angles: &angles[f] })
+            .collect();
+        let Ok(step) = coupled_step(&blocks, &gaps, &curvature_forces, seed.as_deref()) else {
+            report.status = SolveStatus::Stalled;
+            return Ok(None);
+        };
+        report.residual = step.residual;
+        report.constraint_residual = penetration / members[0].rod.length();
+        let size = step.steps.iter().flatten().fold(0.0f64, |a, v| a.max(v.abs()));
+        if step.residual <= RESIDUAL_TOLERANCE
+            && size <= STEP_TOLERANCE
+            && penetration <= PENETRATION_TOLERANCE
+        {
+            let mut own_forces = Vec::with_capacity(members.len());
+            let mut k = 0;
+            for lin in &own {
+                own_forces.push(step.forces[k..k + lin.len()].to_vec());
+                k += lin.len();
+            }
+            let between_forces = step.forces[k..].to_vec();
+            return Ok(Some(Settled { angles, own, own_forces, between, between_forces, penetration }));
+        }
+        // one factor for all fingers: the linearisation of the gaps between them holds
+        // for their joint move
+        let flat: Vec<f64> = step.steps.iter().flatten().copied().collect();
+        let turns_back = turns_back(previous_step.as_deref(), &flat);
+        if turns_back {
+            max_move *= 0.5;
+        }
+        let mut alpha = 1.0f64;
+        for (m, (a, d)) in members.iter().zip(angles.iter().zip(&step.steps)) {
+            let mut trial = d.clone();
+            alpha = alpha.min(limit_step(m.rod, a, &mut trial, max_move));
+        }
+        if alpha >= 1.0 && !turns_back {
+            max_move = (2.0 * max_move).min(0.5 * PREDICTION);
+        }
+        previous_step = Some(flat.iter().map(|v| alpha * v).collect());
+        for (a, d) in angles.iter_mut().zip(&step.steps) {
+            for (x, v) in a.iter_mut().zip(d) {
+                *x += alpha * v;
+            }
+        }
+        if angles.iter().flatten().any(|a| !a.is_finite()) {
+            report.status = SolveStatus::Stalled;
+            return Ok(None);
+        }
+        previous =
+            keys.iter().zip(step.forces.iter().zip(&step.active)).map(|(k, (f, a))| (*k, *f, *a)).collect();
+    }
+    report.status = SolveStatus::IterationLimit;
+    Ok(None)
+}
+
+/// Closes `members` together at `pressure` (Pa) on the obstacles, from open (straight at
+/// zero pressure), each an obstacle of the others.
+///
+/// # Errors
+/// A geometry the queries cannot handle; non-convergence is reported in the result.
+pub fn close_together(
+    members: &[Member<'_>],
+    pressure: f64,
+    obstacles: &Obstacles<'_>,
+) -> Result<CoupledClosing, String> {
+    let loads: Vec<Vec<PointLoad>> =
+        members.iter().map(|m| weight_loads(m.actuator, m.rod, &m.frame)).collect();
+    let mut angles: Vec<Vec<f64>> = members.iter().map(|m| vec![0.0; m.rod.dofs()]).collect();
+    let mut report = fresh_report();
+    let span = pressure.abs().max(1.0);
+    let mut dp = pressure / RAMP_STEPS as f64;
+    let mut p_done = 0.0;
+    let mut halvings = 0;
+    let mut last: Option<Settled> = None;
+    while (p_done - pressure).abs() > 1e-12 * span {
+        let target = if dp.abs() >= (pressure - p_done).abs() { pressure } else { p_done + dp };
+        match settle(members, &loads, obstacles, target, &angles, &mut report)? {
+            Some(s) => {
+                angles.clone_from(&s.angles);
+                p_done = target;
+                report.load_steps += 1;
+                report.status = SolveStatus::Converged;
+                last = Some(s);
+                dp *= 1.5;
+            }
+            None => {
+                halvings += 1;
+                dp *= 0.5;
+                if halvings > MAX_HALVINGS || dp.abs() < span / 4096.0 {
+                    if report.status == SolveStatus::Converged {
+                        report.status = SolveStatus::IterationLimit;
+                    }
+                    last = None;
+                    break;
+                }
+            }
+        }
+    }
+    let mut closed = Vec::with_capacity(members.len());
+    for (f, m) in members.iter().enumerate() {
+        let body =
+            FingerBody::new(m.rod, &angles[f], &m.actuator.section, m.frame).map_err(|e| e.to_string())?;
+        let (contacts, penetration) = match &last {
+            Some(s) => (object_contacts(m.index, m.rod, &s.own[f], &s.own_forces[f]), s.penetration),
+            None => (Vec::new(), 0.0),
+        };
+        closed.push(ClosedFinger { angles: angles[f].clone(), body, contacts, penetration, report });
+    }
+    let between = last.map_or_else(Vec::new, |s| {
+        s.between
+            .iter()
+            .zip(&s.between_forces)
+            .filter(|(_, f)| **f > 0.0)
+            .map(|(l, f)| FingerContact {
+                fingers: (members[l.members.0].index, members[l.members.1].index),
+                elements: (
+                    element_index(l.pieces.0, members[l.members.0].rod.elements),
+                    element_index(l.pieces.1, members[l.members.1].rod.elements),
+                ),
+                points: l.points,
+                normal: l.normal,
+                force: *f,
+            })
+            .collect()
+    });
+    Ok(CoupledClosing { closed, between })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::check::closing::close_finger;
+    use crate::check::closing::tests::demo_finger;
+    use crate::geometry::{ObjectGeometry, palm_body};
+    use crate::scene::{ObjectShape, Palm};
+
+    /// Two identical fingers mounted opposite each other (azimuths 0 and 180°) closing on
+    /// nothing. The problem is symmetric under the mirror `x -> -x` (the finger at 180° is
+    /// the mirror image of the one at 0°, its section being symmetric about its plane), so
+    /// the mirror image of one finger pressed against a rigid wall in the mirror plane is
+    /// an equilibrium of the pair, the wall's reaction supplied by the other finger (a
+    /// closed-form symmetry argument). The wall case is solved with the single-finger path;
+    /// at the mirrored state the coupled step must find equilibrium with the same total
+    /// force, contacts on the plane, equal and opposite, and no step. That symmetric
+    /// equilibrium is unstable without friction (the tips slide past each other), so the
+    /// coupled closing from open ends in an asymmetric state: it must converge with the
+    /// fingers touching each other and overlapping by no more than DESIGN 3.3's 0.01 mm.
+    #[test]
+    fn opposite_fingers_pressed_together_are_a_finger_on_a_wall() {
+        let a = demo_finger();
+        let rod = Rod::of_actuator(&a, 40).unwrap();
+        let palm = palm_body(&Palm::Disk { radius: 0.03, thickness: 0.01 }).unwrap();
+        let far =
+            ObjectGeometry::new(&ObjectShape::Sphere { radius: 0.01 }, Vec3::new(0.0, 0.0, 1.0)).unwrap();
+        let p = 30e3;
+        let model = SectionModel::WallPressure;
+        let frames = [
+            FingerFrame::new(0.0, 0.02, 0.0).unwrap(),
+            FingerFrame::new(std::f64::consts::PI, 0.02, 0.0).unwrap(),
+        ];
+        let members: Vec<Member<'_>> = frames
+            .iter()
+            .enumerate()
+            .map(|(index, &frame)| Member { index, actuator: &a, rod: &rod, frame, model })
+            .collect();
+        // the wall x = 0: a box filling x < 0 below the hub
+        let wall = ObjectGeometry::new(
+            &ObjectShape::Box { size: Vec3::new(0.2, 0.2, 0.2) },
+            Vec3::new(-0.1, 0.0, -0.1),
+        )
+        .unwrap();
+        let w =
+            close_finger(0, &a, &rod, frames[0], model, p, &Obstacles { object: &wall, palm: &palm }, None)
+                .unwrap();
+        assert_eq!(w.report.status, SolveStatus::Converged);
+        let wall_total: f64 = w.contacts.iter().map(|k| k.normal_force).sum();
+        assert!(wall_total > 0.0, "the finger reaches the wall");
+        // the pair at the mirrored state
+        let angles = vec![w.angles.clone(), w.angles.clone()];
+        let bodies: Vec<FingerBody> =
+            frames.iter().map(|&f| FingerBody::new(&rod, &w.angles, &a.section, f).unwrap()).collect();
+        let (between, _) = linearise_between(&members, &angles, &bodies).unwrap();
+        assert!(!between.is_empty());
+        let law = a.law(p, model);
+        let loads = weight_loads(&a, &rod, &frames[0]);
+        let blocks: Vec<RodBlock<'_>> =
+            angles.iter().map(|x| RodBlock { rod: &rod, law: &law, loads: &loads, angles: x }).collect();
+        let gaps: Vec<SharedGap> = between.iter().map(|l| l.gap.clone()).collect();
+        let step = coupled_step(&blocks, &gaps, &vec![0.0; gaps.len()], None).unwrap();
+        assert!(step.residual < 1e-7, "equilibrium: residual {}", step.residual);
+        let size = step.steps.iter().flatten().fold(0.0f64, |m, v| m.max(v.abs()));
+        assert!(size < 1e-6, "no step at an equilibrium: {size}");
+        let total: f64 = step.forces.iter().sum();
+        assert!((total / wall_total - 1.0).abs() < 1e-3, "force {total} vs on the wall {wall_total}");
+        for (l, f) in between.iter().zip(&step.forces) {
+            if *f > 0.0 {
+                assert!(l.points.0.x.abs() < 2e-5 && l.points.1.x.abs() < 2e-5, "on the mirror plane");
+                assert!((l.normal.x + 1.0).abs() < 1e-6, "normal across the plane: {:?}", l.normal);
+            }
+        }
+        // closing together from open
+        let c = close_together(&members, p, &Obstacles { object: &far, palm: &palm }).unwrap();
+        for f in &c.closed {
+            assert_eq!(f.report.status, SolveStatus::Converged, "{:?}", f.report);
+            assert!(f.contacts.is_empty(), "nothing to touch but each other");
+        }
+        assert!(!c.between.is_empty(), "the fingertips meet");
+        for (p0, q0) in
+            c.closed[0].body.pieces.iter().flat_map(|p| c.closed[1].body.pieces.iter().map(move |q| (p, q)))
+        {
+            if let Some(k) =
+                query::contact(&p0.pose, p0.shape.as_ref(), &q0.pose, q0.shape.as_ref(), 0.0).unwrap()
+            {
+                assert!(-k.dist <= PENETRATION_TOLERANCE, "overlap {}", -k.dist);
+            }
+        }
+    }
+
+    /// Newton's third law and the statics of each finger in joint closings: two opposed
+    /// fingers pressed together, and four fingers 90° apart closing on a ball smaller
+    /// than their half-width (they meet before all reach it). Every finger–finger contact
+    /// acts at one place on both bodies (the witnesses within the penetration tolerance),
+    /// pushes finger `i` by `-f n` and finger `j` by `+f n`, and with these and its object
+    /// contacts and weight every finger balances at every element's middle (the check of
+    /// `closing::tests::every_reported_contact_set_balances_the_finger`: Timoshenko &
+    /// Gere, "Theory of Elastic Stability", 1961, ch. 2).
+    #[test]
+    fn finger_forces_are_equal_and_opposite_and_every_finger_balances() {
+        use crate::check::closing::tests::assert_balances;
+        let a = demo_finger();
+        let rod = Rod::of_actuator(&a, 40).unwrap();
+        let palm = palm_body(&Palm::Disk { radius: 0.03, thickness: 0.01 }).unwrap();
+        let model = SectionModel::WallPressure;
+        let far =
+            ObjectGeometry::new(&ObjectShape::Sphere { radius: 0.01 }, Vec3::new(0.0, 0.0, 1.0)).unwrap();
+        let ball =
+            ObjectGeometry::new(&ObjectShape::Sphere { radius: 0.006 }, Vec3::new(0.0, 0.0, -0.1)).unwrap();
+        let quarter = std::f64::consts::FRAC_PI_2;
+        let cases = [
+            (vec![0.0, 2.0 * quarter], &far, 30e3),
+            (vec![0.0, quarter, 2.0 * quarter, 3.0 * quarter], &ball, 40e3),
+        ];
+        for (azimuths, object, p) in cases {
+            let frames: Vec<FingerFrame> =
+                azimuths.iter().map(|&z| FingerFrame::new(z, 0.02, 0.0).unwrap()).collect();
+            let members: Vec<Member<'_>> = frames
+                .iter()
+                .enumerate()
+                .map(|(index, &frame)| Member { index, actuator: &a, rod: &rod, frame, model })
+                .collect();
+            let c = close_together(&members, p, &Obstacles { object, palm: &palm }).unwrap();
+            let what = format!("{} fingers", azimuths.len());
+            assert!(!c.between.is_empty(), "{what}: the fingers meet");
+            for (f, closed) in c.closed.iter().enumerate() {
+                assert_eq!(closed.report.status, SolveStatus::Converged, "{what}: {:?}", closed.report);
+                let mut loads: Vec<(usize, Vec3, Vec3)> = closed
+                    .contacts
+                    .iter()
+                    .map(|k| (k.element, k.point, -k.normal_force * k.normal))
+                    .collect();
+                for k in &c.between {
+                    assert!((k.points.0 - k.points.1).length() <= PENETRATION_TOLERANCE, "{what}: {k:?}");
+                    assert!((k.normal.length() - 1.0).abs() < 1e-9);
+                    if k.fingers.0 == f {
+                        loads.push((k.elements.0, k.points.0, -k.force * k.normal));
+                    }
+                    if k.fingers.1 == f {
+                        loads.push((k.elements.1, k.points.1, k.force * k.normal));
+                    }
+                }
+                assert_balances(&a, &rod, p, closed, &loads, &format!("{what}, finger {f}"));
+            }
+        }
+    }
+}

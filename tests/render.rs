@@ -23,9 +23,10 @@ fn without_the_feature_view_and_render_name_the_build_command() {
         "{}",
         run.stderr
     );
-    let run = arcfinger_in(tmp.path(), &["view", &scene, "--object", "jar"]).expect_code(2);
+    let run = arcfinger_in(tmp.path(), &["view", &scene, "--object", "honey-jar"]).expect_code(2);
     assert!(
-        run.stderr.contains(&format!("cargo run --release --features viewer -- view {scene} --object jar")),
+        run.stderr
+            .contains(&format!("cargo run --release --features viewer -- view {scene} --object honey-jar")),
         "{}",
         run.stderr
     );

@@ -300,7 +300,11 @@ fn evaluate(
         })
         .collect();
     if !done(&failures) {
-        holding(object, &grasp_contacts, criteria, &mut report.holding, &mut failures)?;
+        if detail == Detail::Verdict {
+            holding_verdict(object, &grasp_contacts, criteria, &mut failures)?;
+        } else {
+            holding(object, &grasp_contacts, criteria, &mut report.holding, &mut failures)?;
+        }
     }
     if !done(&failures) {
         // enclosure by the closed fingers and the palm
@@ -368,6 +372,38 @@ fn holding(
                 margin: m.result.scale,
                 need: criteria.safety_factor,
             });
+        }
+    }
+    Ok(())
+}
+
+/// Only whether the grasp holds, for a sweep point: the load cases in order (lift first)
+/// until one falls below the safety factor or its program gives no answer; the same
+/// verdict as [`holding`] (which fails exactly when some case does), without the
+/// programs of the cases after the first failure. The margins are not reported.
+fn holding_verdict(
+    object: &TargetObject,
+    contacts: &[GraspContact],
+    criteria: &crate::scene::Criteria,
+    failures: &mut Vec<Failure>,
+) -> Result<(), CheckError> {
+    let err = |e: &dyn std::fmt::Display| CheckError::Geometry(format!("object \"{}\": {e}", object.name));
+    let cases =
+        grasp::load_cases(object.mass, criteria.lift_accel, criteria.lateral_accel).map_err(|e| err(&e))?;
+    for case in &cases {
+        let r = grasp::holding_scale(contacts, object.position, case, &HoldingSettings::default())
+            .map_err(|e| err(&e))?;
+        if !r.status.is_answer() {
+            failures.push(Failure::NotConverged { what: format!("holding program for \"{}\"", object.name) });
+            return Ok(());
+        }
+        if r.scale < criteria.safety_factor {
+            failures.push(Failure::Holding {
+                case: case.name.clone(),
+                margin: r.scale,
+                need: criteria.safety_factor,
+            });
+            return Ok(());
         }
     }
     Ok(())

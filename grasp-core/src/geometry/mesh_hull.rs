@@ -100,9 +100,7 @@ impl MeshHull {
     }
 
     fn bounding_sphere(&self) -> BoundingSphere {
-        let centre = self.aabb.center();
-        let radius = self.points.iter().map(|p| (*p - centre).length()).fold(0.0, f64::max);
-        BoundingSphere::new(centre, radius)
+        super::point_hull::sphere_around(&self.aabb, &self.points)
     }
 
     fn scaled(&self, scale: Vector) -> Option<Self> {

@@ -192,15 +192,20 @@ macro_rules! support_map_shape {
 }
 pub(crate) use support_map_shape;
 
+/// The sphere centred on a point set's box that holds every point.
+pub(crate) fn sphere_around(aabb: &Aabb, points: &[Vector]) -> BoundingSphere {
+    let centre = aabb.center();
+    let radius = points.iter().map(|p| (*p - centre).length()).fold(0.0, f64::max);
+    BoundingSphere::new(centre, radius)
+}
+
 impl PointHull {
     fn local_aabb(&self) -> Aabb {
         self.aabb
     }
 
     fn bounding_sphere(&self) -> BoundingSphere {
-        let centre = self.aabb.center();
-        let radius = self.points.iter().map(|p| (*p - centre).length()).fold(0.0, f64::max);
-        BoundingSphere::new(centre, radius)
+        sphere_around(&self.aabb, &self.points)
     }
 
     fn scaled(&self, scale: Vector) -> Option<Self> {

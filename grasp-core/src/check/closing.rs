@@ -70,6 +70,12 @@ pub(super) const MAX_STEPS: usize = 60;
 pub(super) const STEP_TOLERANCE: f64 = 1e-9;
 /// Pressure-step halvings allowed in one closing.
 pub const MAX_HALVINGS: usize = 12;
+/// Smallest move allowed per SQP step (m): when steps that keep turning back have
+/// halved the allowed move below this (ten million times below the penetration
+/// tolerance), the iteration is stuck between two linearisations and no later step
+/// changes the state; the pressure step is reported as stalled at once instead of
+/// spending the remaining steps.
+pub(super) const MIN_MOVE: f64 = 1e-12;
 
 /// The closed state of one finger on one object.
 #[derive(Debug, Clone)]
@@ -307,6 +313,10 @@ fn settle(
         let turns_back = turns_back(previous_step.as_deref(), &d);
         if turns_back {
             max_move *= 0.5;
+            if max_move < MIN_MOVE {
+                report.status = SolveStatus::Stalled;
+                return Ok(Settle::Failed);
+            }
         }
         let alpha = limit_step(rod, &angles, &mut d, max_move);
         if alpha >= 1.0 && !turns_back {

@@ -13,15 +13,15 @@
 //! opposite, and not on the object (only finger–object contacts are the grasp's). The
 //! pressure is ramped from zero (the fingers open) as in a single closing, so they meet
 //! rather than pass through each other; a pressure step that does not settle is halved,
-//! at most [`MAX_HALVINGS`] times, and then the closing is reported as not converged.
+//! at most [`COUPLED_HALVINGS`] times, and then the closing is reported as not converged.
 
 use parry3d_f64::bounding_volume::BoundingVolume;
 use parry3d_f64::query;
 
 use super::closing::{
-    ClosedFinger, Linearised, MAX_HALVINGS, MAX_STEPS, Obstacles, PENETRATION_TOLERANCE, PREDICTION,
-    RAMP_STEPS, STEP_TOLERANCE, element_index, fresh_report, is_closed, linearise, object_contacts,
-    turns_back, weight_loads,
+    ClosedFinger, Linearised, MAX_STEPS, MIN_MOVE, Obstacles, PENETRATION_TOLERANCE, PREDICTION, RAMP_STEPS,
+    STEP_TOLERANCE, element_index, fresh_report, is_closed, linearise, object_contacts, turns_back,
+    weight_loads,
 };
 use crate::actuator::Actuator;
 use crate::geometry::{FingerBody, FingerFrame, PieceKind};
@@ -34,8 +34,15 @@ use crate::section::SectionModel;
 
 /// SQP steps allowed per pressure step of a coupled closing: more than a single
 /// finger's [`MAX_STEPS`], since contacts between two fingers' faces switch between
-/// piece pairs and the shifted steps then approach the equilibrium only linearly.
-const COUPLED_STEPS: usize = 4 * MAX_STEPS;
+/// piece pairs and the shifted steps then approach the equilibrium only linearly (on
+/// the demo sweep's coupled closings a settled step took at most 84).
+const COUPLED_STEPS: usize = 2 * MAX_STEPS;
+/// Pressure-step halvings allowed in one coupled closing: fewer than a single finger's
+/// [`super::closing::MAX_HALVINGS`]. Fingers that slide along each other reach a limit point (the tips
+/// about to slip past each other), where no nearby equilibrium exists beyond some
+/// pressure; smaller and smaller steps then only creep toward it. Steps down to 1/64 of
+/// the way are tried; past that the closing is reported as not converged.
+const COUPLED_HALVINGS: usize = 6;
 
 /// One finger of a coupled closing.
 #[derive(Clone, Copy)]
@@ -259,6 +266,10 @@ fn settle(
         let turns_back = turns_back(previous_step.as_deref(), &flat);
         if turns_back {
             max_move *= 0.5;
+            if max_move < MIN_MOVE {
+                report.status = SolveStatus::Stalled;
+                return Ok(None);
+            }
         }
         let mut alpha = 1.0f64;
         for (m, (a, d)) in members.iter().zip(angles.iter().zip(&step.steps)) {
@@ -285,8 +296,10 @@ fn settle(
     Ok(None)
 }
 
-/// Closes `members` together at `pressure` (Pa) on the obstacles, from open (straight at
-/// zero pressure), each an obstacle of the others.
+/// Closes `members` together at `pressure` (Pa) on the obstacles, each an obstacle of the
+/// others: from open (straight at zero pressure), or with `start = (p0, angles)` from a
+/// closed state of the members at `p0` that has no overlap between them (a sweep's
+/// previous point), trying the whole step from `p0` first.
 ///
 /// # Errors
 /// A geometry the queries cannot handle; non-convergence is reported in the result.
@@ -294,14 +307,19 @@ pub fn close_together(
     members: &[Member<'_>],
     pressure: f64,
     obstacles: &Obstacles<'_>,
+    start: Option<(f64, Vec<Vec<f64>>)>,
 ) -> Result<CoupledClosing, String> {
     let loads: Vec<Vec<PointLoad>> =
         members.iter().map(|m| weight_loads(m.actuator, m.rod, &m.frame)).collect();
-    let mut angles: Vec<Vec<f64>> = members.iter().map(|m| vec![0.0; m.rod.dofs()]).collect();
+    let warm = start.is_some();
+    let (mut p_done, mut angles) =
+        start.unwrap_or_else(|| (0.0, members.iter().map(|m| vec![0.0; m.rod.dofs()]).collect()));
+    if angles.len() != members.len() || angles.iter().zip(members).any(|(a, m)| a.len() != m.rod.dofs()) {
+        return Err("a coupled closing's start does not match its fingers".to_string());
+    }
     let mut report = fresh_report();
-    let span = pressure.abs().max(1.0);
-    let mut dp = pressure / RAMP_STEPS as f64;
-    let mut p_done = 0.0;
+    let span = (pressure - p_done).abs().max(1.0);
+    let mut dp = if warm { pressure - p_done } else { (pressure - p_done) / RAMP_STEPS as f64 };
     let mut halvings = 0;
     let mut last: Option<Settled> = None;
     while (p_done - pressure).abs() > 1e-12 * span {
@@ -318,7 +336,7 @@ pub fn close_together(
             None => {
                 halvings += 1;
                 dp *= 0.5;
-                if halvings > MAX_HALVINGS || dp.abs() < span / 4096.0 {
+                if halvings > COUPLED_HALVINGS || dp.abs() < span / 4096.0 {
                     if report.status == SolveStatus::Converged {
                         report.status = SolveStatus::IterationLimit;
                     }
@@ -431,7 +449,7 @@ mod tests {
             }
         }
         // closing together from open
-        let c = close_together(&members, p, &Obstacles { object: &far, palm: &palm }).unwrap();
+        let c = close_together(&members, p, &Obstacles { object: &far, palm: &palm }, None).unwrap();
         for f in &c.closed {
             assert_eq!(f.report.status, SolveStatus::Converged, "{:?}", f.report);
             assert!(f.contacts.is_empty(), "nothing to touch but each other");
@@ -453,7 +471,8 @@ mod tests {
     /// than their half-width (they meet before all reach it). Every finger–finger contact
     /// acts at one place on both bodies (the witnesses within the penetration tolerance),
     /// pushes finger `i` by `-f n` and finger `j` by `+f n`, and with these and its object
-    /// contacts and weight every finger balances at every element's middle (the check of
+    /// contacts and weight every finger balances at every element's middle, closed from
+    /// open and continued from a closed state to a higher pressure (the check of
     /// `closing::tests::every_reported_contact_set_balances_the_finger`: Timoshenko &
     /// Gere, "Theory of Elastic Stability", 1961, ch. 2).
     #[test]
@@ -480,28 +499,47 @@ mod tests {
                 .enumerate()
                 .map(|(index, &frame)| Member { index, actuator: &a, rod: &rod, frame, model })
                 .collect();
-            let c = close_together(&members, p, &Obstacles { object, palm: &palm }).unwrap();
-            let what = format!("{} fingers", azimuths.len());
-            assert!(!c.between.is_empty(), "{what}: the fingers meet");
-            for (f, closed) in c.closed.iter().enumerate() {
-                assert_eq!(closed.report.status, SolveStatus::Converged, "{what}: {:?}", closed.report);
-                let mut loads: Vec<(usize, Vec3, Vec3)> = closed
-                    .contacts
-                    .iter()
-                    .map(|k| (k.element, k.point, -k.normal_force * k.normal))
-                    .collect();
-                for k in &c.between {
-                    assert!((k.points.0 - k.points.1).length() <= PENETRATION_TOLERANCE, "{what}: {k:?}");
-                    assert!((k.normal.length() - 1.0).abs() < 1e-9);
-                    if k.fingers.0 == f {
-                        loads.push((k.elements.0, k.points.0, -k.force * k.normal));
+            let cold = close_together(&members, p, &Obstacles { object, palm: &palm }, None).unwrap();
+            // and continued from that state to a higher pressure, as a sweep does
+            let start = (p, cold.closed.iter().map(|c| c.angles.clone()).collect());
+            let warm =
+                close_together(&members, p + 15e3, &Obstacles { object, palm: &palm }, Some(start)).unwrap();
+            for (c, p) in [(cold, p), (warm, p + 15e3)] {
+                let what = format!("{} fingers at {} kPa", azimuths.len(), p / 1e3);
+                assert!(!c.between.is_empty(), "{what}: the fingers meet");
+                for (f, closed) in c.closed.iter().enumerate() {
+                    assert_eq!(closed.report.status, SolveStatus::Converged, "{what}: {:?}", closed.report);
+                    let mut loads: Vec<(usize, Vec3, Vec3)> = closed
+                        .contacts
+                        .iter()
+                        .map(|k| (k.element, k.point, -k.normal_force * k.normal))
+                        .collect();
+                    for k in &c.between {
+                        assert!((k.points.0 - k.points.1).length() <= PENETRATION_TOLERANCE, "{what}: {k:?}");
+                        assert!((k.normal.length() - 1.0).abs() < 1e-9);
+                        if k.fingers.0 == f {
+                            loads.push((k.elements.0, k.points.0, -k.force * k.normal));
+                        }
+                        if k.fingers.1 == f {
+                            loads.push((k.elements.1, k.points.1, k.force * k.normal));
+                        }
                     }
-                    if k.fingers.1 == f {
-                        loads.push((k.elements.1, k.points.1, k.force * k.normal));
-                    }
+                    assert_balances(&a, &rod, p, closed, &loads, &format!("{what}, finger {f}"));
                 }
-                assert_balances(&a, &rod, p, closed, &loads, &format!("{what}, finger {f}"));
             }
         }
+        let members: Vec<Member<'_>> = [0.0, std::f64::consts::PI]
+            .iter()
+            .enumerate()
+            .map(|(index, &z)| Member {
+                index,
+                actuator: &a,
+                rod: &rod,
+                frame: FingerFrame::new(z, 0.02, 0.0).unwrap(),
+                model,
+            })
+            .collect();
+        let wrong = Some((30e3, vec![vec![0.0; 3], vec![0.0; rod.dofs()]]));
+        assert!(close_together(&members, 40e3, &Obstacles { object: &far, palm: &palm }, wrong).is_err());
     }
 }

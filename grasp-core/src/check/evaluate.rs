@@ -237,7 +237,18 @@ fn evaluate(
                 model: rig.actuator(i).section_model,
             })
             .collect();
-        let together = close_together(&members, pressure, &obstacles).map_err(CheckError::Geometry)?;
+        // from the previous sweep point's state of the group when it has one (converged,
+        // so without overlap between them), else from open
+        let start = starts.and_then(|s| {
+            let of_group: Option<Vec<&(f64, Vec<f64>)>> = group.iter().map(|&i| s.get(i)).collect();
+            let of_group = of_group?;
+            let p0 = of_group.first()?.0;
+            of_group
+                .iter()
+                .all(|(p, _)| *p == p0)
+                .then(|| (p0, of_group.iter().map(|(_, a)| a.clone()).collect()))
+        });
+        let together = close_together(&members, pressure, &obstacles, start).map_err(CheckError::Geometry)?;
         let status = together.closed.first().map_or(SolveStatus::Converged, |c| c.report.status);
         if status != SolveStatus::Converged {
             failures.push(Failure::NotConverged {

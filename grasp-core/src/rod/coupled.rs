@@ -12,6 +12,7 @@
 //! holds by construction where the parts' normals are the in-plane shares of one world
 //! normal and its negative).
 
+use super::solve::Placement;
 use super::sqp::{Tridiagonal, complementarity, gap_terms, moment_scale};
 use super::{GAP_TOLERANCE, MomentLaw, PointGap, PointLoad, Rod, RodError};
 
@@ -104,14 +105,17 @@ pub fn coupled_step(
     }
     let mut diagonals: Vec<Vec<f64>> = tangents.iter().map(|t| t.diagonal.clone()).collect();
     let mut uppers: Vec<Vec<f64>> = tangents.iter().map(|t| t.upper.clone()).collect();
+    let placements: Vec<Placement<'_>> =
+        blocks.iter().map(|b| Placement::new(b.rod, b.angles)).collect::<Result<_, _>>()?;
     let mut values = Vec::with_capacity(gaps.len());
     let mut rows: Vec<Row> = Vec::with_capacity(gaps.len());
     for (gap, &fc) in gaps.iter().zip(curvature_forces) {
         let mut value: Option<f64> = None;
         let mut row = Vec::with_capacity(gap.parts.len());
         for (b, part) in &gap.parts {
-            let block = blocks.get(*b).ok_or(RodError::BadInput("a gap part names no rod of the step"))?;
-            let (v, r, second) = gap_terms(block.rod, block.angles, part)?;
+            let placed =
+                placements.get(*b).ok_or(RodError::BadInput("a gap part names no rod of the step"))?;
+            let (v, r, second) = gap_terms(placed, part)?;
             for (k, l, s) in second {
                 if k == l {
                     diagonals[*b][k] -= fc * s;

@@ -99,6 +99,10 @@ pub(crate) struct PointDerivatives {
 }
 
 impl PointDerivatives {
+    fn with_capacity(first: usize, second: usize) -> Self {
+        Self { first: Vec::with_capacity(first), second: Vec::with_capacity(second) }
+    }
+
     /// Adds the terms of a sub-arc of length `a` (fraction `f = a/h` of element `j`) from
     /// angle `A = psi_j` to `A + f (B - A)`, `B = psi_{j+1}`, with an offset `y` along the
     /// section's up direction at its end.
@@ -180,6 +184,101 @@ pub(crate) fn point_derivatives(
         }
     }
     Ok(out)
+}
+
+/// A rod at fixed angles with its chain of element chords evaluated once: the element
+/// ends and each full chord's derivative terms. Positions of material points then cost
+/// O(1) and their derivatives O(i) additions with no trigonometry, where
+/// [`Rod::position`] and [`point_derivatives`] walk the chain again for every point. The
+/// values are the same floating-point numbers (the same terms, summed in the same
+/// order).
+pub(crate) struct Placement<'a> {
+    rod: &'a Rod,
+    angles: &'a [f64],
+    /// The start of element `j` (`j = 0..n`; `j = n` is the cap's start) (m).
+    starts: Vec<Vec2>,
+    /// The derivative terms of full chord `j`.
+    chords: Vec<PointDerivatives>,
+}
+
+impl<'a> Placement<'a> {
+    /// The placement of `rod` at `angles` (one per dof).
+    pub(crate) fn new(rod: &'a Rod, angles: &'a [f64]) -> Result<Self, RodError> {
+        if angles.len() != rod.dofs() {
+            return Err(RodError::BadInitialGuess { got: angles.len(), expected: rod.dofs() });
+        }
+        let h = rod.element_length();
+        let n = rod.elements;
+        let mut starts = Vec::with_capacity(n + 1);
+        let mut chords = Vec::with_capacity(n);
+        let mut x = Vec2::new(0.0, rod.base_length);
+        let mut prev = 0.0;
+        for (j, &psi) in angles.iter().enumerate() {
+            starts.push(x);
+            x += super::chord(h, prev, psi);
+            let mut d = PointDerivatives::with_capacity(2, 4);
+            d.add_arc(j, h, 1.0, prev, psi, 0.0);
+            chords.push(d);
+            prev = psi;
+        }
+        starts.push(x);
+        Ok(Self { rod, angles, starts, chords })
+    }
+
+    /// The rod's angles.
+    pub(crate) fn angles(&self) -> &'a [f64] {
+        self.angles
+    }
+
+    /// Position of a material point (m); equals [`Rod::position`].
+    pub(crate) fn position(&self, p: MaterialPoint) -> Result<Vec2, RodError> {
+        let rod = self.rod;
+        let h = rod.element_length();
+        let angle = |j: usize| if j == 0 { 0.0 } else { self.angles[j - 1] };
+        Ok(match rod.segment(p.s)? {
+            Segment::Base => Vec2::new(0.0, p.s) + p.y * section_up(0.0),
+            Segment::Element(i, a) => {
+                let prev = angle(i);
+                let end = prev + (self.angles[i] - prev) * a / h;
+                self.starts[i] + super::chord(a, prev, end) + p.y * section_up(end)
+            }
+            Segment::Cap(a) => {
+                let prev = angle(rod.elements);
+                self.starts[rod.elements] + a * direction(prev) + p.y * section_up(prev)
+            }
+        })
+    }
+
+    /// Derivatives of a material point's position; equals [`point_derivatives`].
+    pub(crate) fn derivatives(&self, p: MaterialPoint) -> Result<PointDerivatives, RodError> {
+        let rod = self.rod;
+        let h = rod.element_length();
+        let angle = |j: usize| if j == 0 { 0.0 } else { self.angles[j - 1] };
+        let upto = |i: usize| {
+            let mut out = PointDerivatives::with_capacity(2 * i + 2, 4 * i + 4);
+            for c in &self.chords[..i] {
+                out.first.extend_from_slice(&c.first);
+                out.second.extend_from_slice(&c.second);
+            }
+            out
+        };
+        Ok(match rod.segment(p.s)? {
+            Segment::Base => PointDerivatives::default(),
+            Segment::Element(i, a) => {
+                let mut out = upto(i);
+                out.add_arc(i, a, a / h, angle(i), angle(i + 1), p.y);
+                out
+            }
+            Segment::Cap(a) => {
+                let n = rod.elements;
+                let mut out = upto(n);
+                let psi = self.angles[n - 1];
+                out.first.push((n - 1, a * normal(psi) + p.y * direction(psi)));
+                out.second.push((n - 1, n - 1, -a * direction(psi) - p.y * section_up(psi)));
+                out
+            }
+        })
+    }
 }
 
 /// `d direction / d phi = (cos phi, -sin phi)`.

@@ -28,7 +28,7 @@
 //! rods at once with gaps shared between two of them (fingers touching each other).
 
 use super::coupled::{RodBlock, SharedGap, coupled_step};
-use super::solve::point_derivatives;
+use super::solve::Placement;
 use super::{
     ContactSolution, MomentLaw, PointGap, PointLoad, Rod, RodError, RodSolution, SolveReport, SolveStatus,
 };
@@ -119,14 +119,10 @@ impl Tridiagonal {
 type Second = Vec<(usize, usize, f64)>;
 
 /// Value, gradient row (dense) and second derivatives of one gap.
-pub(super) fn gap_terms(
-    rod: &Rod,
-    angles: &[f64],
-    gap: &PointGap,
-) -> Result<(f64, Vec<f64>, Second), RodError> {
-    let value = gap.normal.dot(rod.position(angles, gap.point)?) - gap.offset;
-    let d = point_derivatives(rod, angles, gap.point)?;
-    let mut row = vec![0.0; rod.dofs()];
+pub(super) fn gap_terms(placed: &Placement<'_>, gap: &PointGap) -> Result<(f64, Vec<f64>, Second), RodError> {
+    let value = gap.normal.dot(placed.position(gap.point)?) - gap.offset;
+    let d = placed.derivatives(gap.point)?;
+    let mut row = vec![0.0; placed.angles().len()];
     for (k, d1) in d.first {
         row[k] += gap.normal.dot(d1);
     }

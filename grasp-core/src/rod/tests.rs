@@ -411,3 +411,51 @@ fn distributed_load_matches_the_euler_bernoulli_cantilever() {
     // midpoint lumping is second order: 40 elements leave ~1e-4 relative
     assert_relative_eq!(tip, q * l.powi(4) / (8.0 * ei), max_relative = 5e-4);
 }
+
+/// The placement cache gives the same numbers as walking the chain for every point
+/// (`Rod::position`, `point_derivatives`: bit for bit, the same terms in the same order),
+/// and those numbers are right: on a uniform bend every point of the reference line lies
+/// on the arc of `FingerShape` (Webster & Jones, IJRR 29(13), 2010: constant curvature),
+/// and on a non-uniform bend the first derivatives equal central finite differences of
+/// the position (a closed-form check of the chain rule, error O(step^2)).
+#[test]
+fn placement_equals_the_chain_walk_and_its_derivatives_are_the_slopes() {
+    use super::solve::{Placement, point_derivatives};
+    let rod = Rod::new(0.01, 0.1, 0.008, 20).unwrap();
+    let h = rod.element_length();
+    let k = 15.0;
+    let uniform: Vec<f64> = (1..=rod.elements).map(|i| i as f64 * k * h).collect();
+    let shape = FingerShape { base_length: 0.01, chamber_length: 0.1, tip_length: 0.008, curvature: k };
+    let placed = Placement::new(&rod, &uniform).unwrap();
+    for s in [0.004, 0.0137, 0.05, 0.0999, 0.1102, rod.length()] {
+        let x = placed.position(MaterialPoint { s, y: 0.0 }).unwrap();
+        let q = shape.point_at(s);
+        assert_relative_eq!(x.x, q.x, epsilon = 1e-14);
+        assert_relative_eq!(x.y, q.y, epsilon = 1e-14);
+    }
+    let bent: Vec<f64> =
+        (1..=rod.elements).map(|i| 2.0 * (i as f64 / 20.0).powf(1.5) + 0.05 * (i as f64).sin()).collect();
+    let placed = Placement::new(&rod, &bent).unwrap();
+    for (s, y) in [(0.003, 0.001), (0.0137, -0.002), (0.061, 0.004), (0.1049, -0.001), (0.113, 0.003)] {
+        let p = MaterialPoint { s, y };
+        assert_eq!(placed.position(p).unwrap(), rod.position(&bent, p).unwrap());
+        let fast = placed.derivatives(p).unwrap();
+        let slow = point_derivatives(&rod, &bent, p).unwrap();
+        assert_eq!(fast.first, slow.first);
+        assert_eq!(fast.second, slow.second);
+        let mut slope = vec![Vec2::ZERO; rod.dofs()];
+        for (k, d) in &fast.first {
+            slope[*k] += *d;
+        }
+        let e = 1e-6;
+        for (k, d) in slope.iter().enumerate() {
+            let mut up = bent.clone();
+            let mut down = bent.clone();
+            up[k] += e;
+            down[k] -= e;
+            let fd = (rod.position(&up, p).unwrap() - rod.position(&down, p).unwrap()) / (2.0 * e);
+            assert!((fd - *d).length() < 1e-8, "s {s}, dof {k}: {d:?} vs {fd:?}");
+        }
+    }
+    assert!(Placement::new(&rod, &bent[..5]).is_err());
+}

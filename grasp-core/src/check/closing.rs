@@ -180,11 +180,17 @@ pub(super) fn linearise(
         MAX_STEP_DEPTH * e.x.min(e.y).min(e.z)
     };
     let limits = [depth_limit(targets[0].0, targets[0].1), depth_limit(targets[1].0, targets[1].1)];
+    // no contact within `prediction` where the boxes grown by it do not meet
+    let boxes = targets.map(|(pose, shape, _)| shape.compute_aabb(pose).loosened(prediction));
     for (i, piece) in body.pieces.iter().enumerate() {
         if piece.kind == PieceKind::Base {
             continue; // clamped in the hub: it cannot move to open or close a gap
         }
-        for (&(pose, shape, on_object), &limit) in targets.iter().zip(&limits) {
+        let piece_box = piece.shape.compute_aabb(&piece.pose);
+        for ((&(pose, shape, on_object), &limit), reach) in targets.iter().zip(&limits).zip(&boxes) {
+            if !reach.intersects(&piece_box) {
+                continue;
+            }
             let c = query::contact(&piece.pose, piece.shape.as_ref(), pose, shape.as_ref(), prediction)
                 .map_err(|_| "unsupported shape pair in the contact query".to_string())?;
             let Some(c) = c else { continue };

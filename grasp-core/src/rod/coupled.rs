@@ -94,19 +94,16 @@ pub fn coupled_step(
     if curvature_forces.len() != gaps.len() || seed.is_some_and(|s| s.len() != gaps.len()) {
         return Err(RodError::BadInput("one curvature force and seed flag per gap"));
     }
+    let placements: Vec<Placement<'_>> =
+        blocks.iter().map(|b| Placement::new(b.rod, b.angles)).collect::<Result<_, _>>()?;
     let mut tangents = Vec::with_capacity(blocks.len());
-    for b in blocks {
-        if b.angles.len() != b.rod.dofs() {
-            return Err(RodError::BadInitialGuess { got: b.angles.len(), expected: b.rod.dofs() });
-        }
-        let t = super::solve::potential_tangent(b.rod, b.law, b.loads, b.angles, 1.0, true)
+    for (b, placed) in blocks.iter().zip(&placements) {
+        let t = super::solve::potential_tangent(b.rod, b.law, b.loads, b.angles, 1.0, true, Some(placed))
             .ok_or(RodError::BadInput("the moment law cannot be evaluated at these angles"))?;
         tangents.push(t);
     }
     let mut diagonals: Vec<Vec<f64>> = tangents.iter().map(|t| t.diagonal.clone()).collect();
     let mut uppers: Vec<Vec<f64>> = tangents.iter().map(|t| t.upper.clone()).collect();
-    let placements: Vec<Placement<'_>> =
-        blocks.iter().map(|b| Placement::new(b.rod, b.angles)).collect::<Result<_, _>>()?;
     let mut values = Vec::with_capacity(gaps.len());
     let mut rows: Vec<Row> = Vec::with_capacity(gaps.len());
     for (gap, &fc) in gaps.iter().zip(curvature_forces) {

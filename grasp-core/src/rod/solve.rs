@@ -299,7 +299,9 @@ pub(crate) struct Tangent {
 }
 
 /// [`Tangent`] at `angles`; `None` when the law cannot be evaluated there (or a load is
-/// off the rod). With `with_hessian` false the Hessian is left zero.
+/// off the rod). With `with_hessian` false the Hessian is left zero. `placed`, the rod's
+/// placement at these angles when the caller has it, saves differentiating the chords
+/// again (the same numbers).
 pub(crate) fn potential_tangent(
     rod: &Rod,
     law: &dyn MomentLaw,
@@ -307,6 +309,7 @@ pub(crate) fn potential_tangent(
     angles: &[f64],
     t: f64,
     with_hessian: bool,
+    placed: Option<&Placement<'_>>,
 ) -> Option<Tangent> {
     let nd = rod.dofs();
     let n = rod.elements;
@@ -375,10 +378,15 @@ pub(crate) fn potential_tangent(
     for j in (0..n).rev() {
         beyond += on[j + 1];
         if beyond != Vec2::ZERO {
-            scratch.first.clear();
-            scratch.second.clear();
-            scratch.add_arc(j, h, 1.0, angle(j), angle(j + 1), 0.0);
-            apply(&scratch, beyond, &mut out);
+            match placed.and_then(|p| p.chords.get(j)) {
+                Some(chord) => apply(chord, beyond, &mut out),
+                None => {
+                    scratch.first.clear();
+                    scratch.second.clear();
+                    scratch.add_arc(j, h, 1.0, angle(j), angle(j + 1), 0.0);
+                    apply(&scratch, beyond, &mut out);
+                }
+            }
         }
     }
     Some(out)
@@ -412,7 +420,7 @@ impl Problem<'_> {
         let lambda = &z.as_slice()[nd..];
         let mut r = DVector::zeros(nd + nc);
         let mut jac = with_jacobian.then(|| DMatrix::zeros(nd + nc, nd + nc));
-        let tangent = potential_tangent(self.rod, self.law, self.loads, angles, t, with_jacobian)?;
+        let tangent = potential_tangent(self.rod, self.law, self.loads, angles, t, with_jacobian, None)?;
         for (k, g) in tangent.gradient.iter().enumerate() {
             r[k] = *g;
         }

@@ -197,8 +197,20 @@ pub(crate) struct Placement<'a> {
     angles: &'a [f64],
     /// The start of element `j` (`j = 0..n`; `j = n` is the cap's start) (m).
     starts: Vec<Vec2>,
-    /// The derivative terms of full chord `j`.
-    chords: Vec<PointDerivatives>,
+    /// The derivative terms of the full chords, one after the other: chord `j`'s are
+    /// `first[first_end(j - 1)..first_end(j)]` and likewise for `second`.
+    chords: PointDerivatives,
+}
+
+/// The number of first-derivative terms of full chords `0..=j` (chord 0 has one, the
+/// clamped angle having no dof; every later chord two).
+fn first_end(j: usize) -> usize {
+    2 * j + 1
+}
+
+/// The number of second-derivative terms of full chords `0..=j` (one, then four each).
+fn second_end(j: usize) -> usize {
+    4 * j + 1
 }
 
 impl<'a> Placement<'a> {
@@ -210,19 +222,23 @@ impl<'a> Placement<'a> {
         let h = rod.element_length();
         let n = rod.elements;
         let mut starts = Vec::with_capacity(n + 1);
-        let mut chords = Vec::with_capacity(n);
+        let mut chords = PointDerivatives::with_capacity(first_end(n), second_end(n));
         let mut x = Vec2::new(0.0, rod.base_length);
         let mut prev = 0.0;
         for (j, &psi) in angles.iter().enumerate() {
             starts.push(x);
             x += super::chord(h, prev, psi);
-            let mut d = PointDerivatives::with_capacity(2, 4);
-            d.add_arc(j, h, 1.0, prev, psi, 0.0);
-            chords.push(d);
+            chords.add_arc(j, h, 1.0, prev, psi, 0.0);
             prev = psi;
         }
         starts.push(x);
         Ok(Self { rod, angles, starts, chords })
+    }
+
+    /// The derivative terms (first, second) of full chord `j`.
+    fn chord(&self, j: usize) -> Option<(&[(usize, Vec2)], &[(usize, usize, Vec2)])> {
+        let (f0, s0) = if j == 0 { (0, 0) } else { (first_end(j - 1), second_end(j - 1)) };
+        Some((self.chords.first.get(f0..first_end(j))?, self.chords.second.get(s0..second_end(j))?))
     }
 
     /// The rod's angles.
@@ -255,11 +271,10 @@ impl<'a> Placement<'a> {
         let h = rod.element_length();
         let angle = |j: usize| if j == 0 { 0.0 } else { self.angles[j - 1] };
         let upto = |i: usize| {
-            let mut out = PointDerivatives::with_capacity(2 * i + 2, 4 * i + 4);
-            for c in &self.chords[..i] {
-                out.first.extend_from_slice(&c.first);
-                out.second.extend_from_slice(&c.second);
-            }
+            let (f, s) = if i == 0 { (0, 0) } else { (first_end(i - 1), second_end(i - 1)) };
+            let mut out = PointDerivatives::with_capacity(f + 2, s + 4);
+            out.first.extend_from_slice(&self.chords.first[..f]);
+            out.second.extend_from_slice(&self.chords.second[..s]);
             out
         };
         Ok(match rod.segment(p.s)? {
@@ -338,12 +353,12 @@ pub(crate) fn potential_tangent(
     // differentiated once and weighted by the sum of the loads beyond it (O(n) in all
     // instead of O(n) per load).
     let angle = |j: usize| if j == 0 { 0.0 } else { angles[j - 1] };
-    let apply = |d: &PointDerivatives, f: Vec2, out: &mut Tangent| {
-        for &(k, d1) in &d.first {
+    let apply = |(first, second): (&[(usize, Vec2)], &[(usize, usize, Vec2)]), f: Vec2, out: &mut Tangent| {
+        for &(k, d1) in first {
             out.gradient[k] -= f.dot(d1);
         }
         if with_hessian {
-            for &(k, l, d2) in &d.second {
+            for &(k, l, d2) in second {
                 if k == l {
                     out.diagonal[k] -= f.dot(d2);
                 } else if l == k + 1 {
@@ -372,19 +387,19 @@ pub(crate) fn potential_tangent(
                 scratch.second.push((n - 1, n - 1, -a * direction(psi) - load.point.y * section_up(psi)));
             }
         }
-        apply(&scratch, f, &mut out);
+        apply((&scratch.first, &scratch.second), f, &mut out);
     }
     let mut beyond = Vec2::ZERO;
     for j in (0..n).rev() {
         beyond += on[j + 1];
         if beyond != Vec2::ZERO {
-            match placed.and_then(|p| p.chords.get(j)) {
+            match placed.and_then(|p| p.chord(j)) {
                 Some(chord) => apply(chord, beyond, &mut out),
                 None => {
                     scratch.first.clear();
                     scratch.second.clear();
                     scratch.add_arc(j, h, 1.0, angle(j), angle(j + 1), 0.0);
-                    apply(&scratch, beyond, &mut out);
+                    apply((&scratch.first, &scratch.second), beyond, &mut out);
                 }
             }
         }

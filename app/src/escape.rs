@@ -14,7 +14,6 @@
 /// `s` as HTML text: `& < > " '` become character references, control characters
 /// (except tab, line feed and carriage return) and the bidirectional overrides and
 /// isolates become U+FFFD, so a name cannot hide or reorder what follows it.
-#[allow(dead_code, reason = "for the HTML reports; the first one is being added separately")]
 pub fn html(s: &str) -> String {
     let mut out = String::with_capacity(s.len() + s.len() / 8);
     for c in s.chars() {

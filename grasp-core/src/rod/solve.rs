@@ -202,6 +202,9 @@ pub(crate) struct Placement<'a> {
     chords: PointDerivatives,
 }
 
+/// The derivative terms (first, second) of one chord, borrowed.
+type ChordTerms<'t> = (&'t [(usize, Vec2)], &'t [(usize, usize, Vec2)]);
+
 /// The number of first-derivative terms of full chords `0..=j` (chord 0 has one, the
 /// clamped angle having no dof; every later chord two).
 fn first_end(j: usize) -> usize {
@@ -236,7 +239,7 @@ impl<'a> Placement<'a> {
     }
 
     /// The derivative terms (first, second) of full chord `j`.
-    fn chord(&self, j: usize) -> Option<(&[(usize, Vec2)], &[(usize, usize, Vec2)])> {
+    fn chord(&self, j: usize) -> Option<ChordTerms<'_>> {
         let (f0, s0) = if j == 0 { (0, 0) } else { (first_end(j - 1), second_end(j - 1)) };
         Some((self.chords.first.get(f0..first_end(j))?, self.chords.second.get(s0..second_end(j))?))
     }
@@ -353,7 +356,7 @@ pub(crate) fn potential_tangent(
     // differentiated once and weighted by the sum of the loads beyond it (O(n) in all
     // instead of O(n) per load).
     let angle = |j: usize| if j == 0 { 0.0 } else { angles[j - 1] };
-    let apply = |(first, second): (&[(usize, Vec2)], &[(usize, usize, Vec2)]), f: Vec2, out: &mut Tangent| {
+    let apply = |(first, second): ChordTerms<'_>, f: Vec2, out: &mut Tangent| {
         for &(k, d1) in first {
             out.gradient[k] -= f.dot(d1);
         }

@@ -1,12 +1,13 @@
 //! The HTML page: one file, no external resources (inline CSS, SVG charts inlined,
-//! pictures as `data:` URIs), every piece of user text escaped ([`super::escape::html`]).
+//! pictures as `data:` URIs), every piece of user text escaped ([`crate::escape::html`]).
 //! The markup is also well-formed XML (void elements self-closed), so tests can parse it.
 
 use std::fmt::Write as _;
 
-use super::escape::{base64, html as esc};
+use super::escape::base64;
 use super::{Candidate, charts, object_names};
 use crate::error::AppError;
+use crate::escape::html as esc;
 use crate::report::{CAUTIONS, Status, fixed, object_status, recommendation, window_kpa};
 
 const STYLE: &str = "body{font-family:sans-serif;margin:2em;max-width:1200px;color:#222}\

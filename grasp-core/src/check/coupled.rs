@@ -13,7 +13,8 @@
 //! opposite, and not on the object (only finger–object contacts are the grasp's). The
 //! pressure is ramped from zero (the fingers open) as in a single closing, so they meet
 //! rather than pass through each other; a pressure step that does not settle is halved,
-//! at most [`COUPLED_HALVINGS`] times, and then the closing is reported as not converged.
+//! at most [`COUPLED_HALVINGS`] times and within [`COUPLED_BUDGET`] SQP steps in all,
+//! and then the closing is reported as not converged.
 
 use parry3d_f64::bounding_volume::BoundingVolume;
 use parry3d_f64::query;
@@ -27,7 +28,7 @@ use crate::actuator::Actuator;
 use crate::geometry::{FingerBody, FingerFrame, PieceKind};
 use crate::math::Vec3;
 use crate::rod::{
-    PointGap, PointLoad, RESIDUAL_TOLERANCE, Rod, RodBlock, SharedGap, SolveReport, SolveStatus,
+    Chain, PointGap, PointLoad, RESIDUAL_TOLERANCE, Rod, RodBlock, SharedGap, SolveReport, SolveStatus,
     coupled_step, limit_step,
 };
 use crate::section::SectionModel;
@@ -43,6 +44,11 @@ const COUPLED_STEPS: usize = 2 * MAX_STEPS;
 /// pressure; smaller and smaller steps then only creep toward it. Steps down to 1/64 of
 /// the way are tried; past that the closing is reported as not converged.
 const COUPLED_HALVINGS: usize = 6;
+/// SQP steps allowed in one whole coupled closing, over all its pressure steps. On the
+/// demo sweep's coupled closings one that settled took at most 327 (most under 80);
+/// one that never settles would otherwise spend [`COUPLED_STEPS`] on each of its
+/// [`COUPLED_HALVINGS`] smaller steps before it is reported.
+const COUPLED_BUDGET: usize = 2 * COUPLED_STEPS;
 
 /// One finger of a coupled closing.
 #[derive(Clone, Copy)]
@@ -101,15 +107,11 @@ enum Key {
 
 /// Gaps between the pieces of different members within `PREDICTION`, and the deepest
 /// overlap among them (m).
-fn linearise_between(
-    members: &[Member<'_>],
-    angles: &[Vec<f64>],
-    bodies: &[FingerBody],
-) -> Result<(Vec<Between>, f64), String> {
+fn linearise_between(chains: &[Chain<'_>], bodies: &[FingerBody]) -> Result<(Vec<Between>, f64), String> {
     let mut out: Vec<Between> = Vec::new();
     let mut penetration = f64::NEG_INFINITY;
-    for a in 0..members.len() {
-        for b in a + 1..members.len() {
+    for a in 0..chains.len() {
+        for b in a + 1..chains.len() {
             let (ba, bb) = (&bodies[a], &bodies[b]);
             if !ba.aabb().loosened(PREDICTION).intersects(&bb.aabb()) {
                 continue;
@@ -144,8 +146,8 @@ fn linearise_between(
                     if twin {
                         continue;
                     }
-                    let xa = members[a].rod.position(&angles[a], ma).map_err(|e| e.to_string())?;
-                    let xb = members[b].rod.position(&angles[b], mb).map_err(|e| e.to_string())?;
+                    let xa = chains[a].position(ma).map_err(|e| e.to_string())?;
+                    let xb = chains[b].position(mb).map_err(|e| e.to_string())?;
                     // g = d - n_a . (x_a - x_a0) + n_b . (x_b - x_b0)
                     let gap = SharedGap {
                         parts: vec![
@@ -192,21 +194,26 @@ fn settle(
     let mut previous: Vec<(Key, f64, bool)> = Vec::new();
     let mut previous_step: Option<Vec<f64>> = None;
     let mut max_move = 0.5 * PREDICTION;
-    for _ in 0..COUPLED_STEPS {
+    for _ in 0..COUPLED_STEPS.min(COUPLED_BUDGET.saturating_sub(report.iterations)) {
         report.iterations += 1;
         let bodies: Vec<FingerBody> = members
             .iter()
             .zip(&angles)
             .map(|(m, a)| FingerBody::new(m.rod, a, &m.actuator.section, m.frame).map_err(|e| e.to_string()))
             .collect::<Result<_, _>>()?;
+        let chains: Vec<Chain<'_>> = members
+            .iter()
+            .zip(&angles)
+            .map(|(m, a)| Chain::new(m.rod, a).map_err(|e| e.to_string()))
+            .collect::<Result<_, _>>()?;
         let mut penetration = 0.0f64;
         let mut own = Vec::with_capacity(members.len());
-        for ((m, a), body) in members.iter().zip(&angles).zip(&bodies) {
-            let (lin, pen, _) = linearise(m.rod, a, body, obstacles, PREDICTION)?;
+        for (chain, body) in chains.iter().zip(&bodies) {
+            let (lin, pen, _) = linearise(chain, body, obstacles, PREDICTION)?;
             penetration = penetration.max(pen);
             own.push(lin);
         }
-        let (between, pen) = linearise_between(members, &angles, &bodies)?;
+        let (between, pen) = linearise_between(&chains, &bodies)?;
         penetration = penetration.max(pen);
         let mut gaps = Vec::new();
         let mut keys = Vec::new();
@@ -215,7 +222,7 @@ fn settle(
             for l in lin {
                 gaps.push(SharedGap { parts: vec![(f, l.gap)] });
                 keys.push(Key::Obstacle(f, l.piece, l.on_object));
-                closed_now.push(is_closed(members[f].rod, &angles[f], l));
+                closed_now.push(is_closed(&chains[f], l));
             }
         }
         for l in &between {
@@ -224,9 +231,7 @@ fn settle(
                 .gap
                 .parts
                 .iter()
-                .map(|(f, g)| {
-                    members[*f].rod.position(&angles[*f], g.point).map_or(0.0, |x| g.normal.dot(x)) - g.offset
-                })
+                .map(|(f, g)| chains[*f].position(g.point).map_or(0.0, |x| g.normal.dot(x)) - g.offset)
                 .sum();
             closed_now.push(value <= crate::rod::GAP_TOLERANCE);
             gaps.push(l.gap.clone());
@@ -336,7 +341,10 @@ pub fn close_together(
             None => {
                 halvings += 1;
                 dp *= 0.5;
-                if halvings > COUPLED_HALVINGS || dp.abs() < span / 4096.0 {
+                if halvings > COUPLED_HALVINGS
+                    || dp.abs() < span / 4096.0
+                    || report.iterations >= COUPLED_BUDGET
+                {
                     if report.status == SolveStatus::Converged {
                         report.status = SolveStatus::IterationLimit;
                     }
@@ -426,10 +434,11 @@ mod tests {
         let wall_total: f64 = w.contacts.iter().map(|k| k.normal_force).sum();
         assert!(wall_total > 0.0, "the finger reaches the wall");
         // the pair at the mirrored state
-        let angles = vec![w.angles.clone(), w.angles.clone()];
+        let angles = [w.angles.clone(), w.angles.clone()];
         let bodies: Vec<FingerBody> =
             frames.iter().map(|&f| FingerBody::new(&rod, &w.angles, &a.section, f).unwrap()).collect();
-        let (between, _) = linearise_between(&members, &angles, &bodies).unwrap();
+        let chains: Vec<Chain<'_>> = angles.iter().map(|x| Chain::new(&rod, x).unwrap()).collect();
+        let (between, _) = linearise_between(&chains, &bodies).unwrap();
         assert!(!between.is_empty());
         let law = a.law(p, model);
         let loads = weight_loads(&a, &rod, &frames[0]);

@@ -242,28 +242,89 @@ impl Rod {
     /// A point off the rod.
     pub fn position(&self, angles: &[f64], p: MaterialPoint) -> Result<Vec2, RodError> {
         let h = self.element_length();
-        let start = Vec2::new(0.0, self.base_length);
-        let upto = |i: usize| {
-            let mut x = start;
+        // the start of element `i` (`i = n`: of the cap), walking the chords up to it
+        let start_of = |i: usize| {
+            let mut x = Vec2::new(0.0, self.base_length);
             let mut prev = 0.0;
             for &psi in &angles[..i] {
                 x += chord(h, prev, psi);
                 prev = psi;
             }
-            (x, prev)
+            x
         };
+        self.position_from(angles, p, start_of)
+    }
+
+    /// Position of material point `p` at `angles`, given the start of each element
+    /// (`start_of(n)`: the cap's start).
+    pub(crate) fn position_from(
+        &self,
+        angles: &[f64],
+        p: MaterialPoint,
+        start_of: impl FnOnce(usize) -> Vec2,
+    ) -> Result<Vec2, RodError> {
+        let h = self.element_length();
+        let angle = |j: usize| if j == 0 { 0.0 } else { angles[j - 1] };
         Ok(match self.segment(p.s)? {
             Segment::Base => Vec2::new(0.0, p.s) + p.y * section_up(0.0),
             Segment::Element(i, a) => {
-                let (x, prev) = upto(i);
+                let prev = angle(i);
                 let end = prev + (angles[i] - prev) * a / h;
-                x + chord(a, prev, end) + p.y * section_up(end)
+                start_of(i) + chord(a, prev, end) + p.y * section_up(end)
             }
             Segment::Cap(a) => {
-                let (x, prev) = upto(self.elements);
-                x + a * direction(prev) + p.y * section_up(prev)
+                let prev = angle(self.elements);
+                start_of(self.elements) + a * direction(prev) + p.y * section_up(prev)
             }
         })
+    }
+}
+
+/// A rod at fixed angles with its [`Rod::nodes`] evaluated once, for the positions of
+/// many material points at one configuration (the gaps of a contact linearisation):
+/// each then costs one partial chord, where [`Rod::position`] walks the chain of chords
+/// up to the point again. The positions are the same floating-point numbers (the nodes
+/// are the same sums of the same chords).
+pub struct Chain<'a> {
+    rod: &'a Rod,
+    angles: &'a [f64],
+    nodes: Vec<Vec2>,
+}
+
+impl<'a> Chain<'a> {
+    /// The chain of `rod` at `angles` (one per dof).
+    ///
+    /// # Errors
+    /// Angles of the wrong length.
+    pub fn new(rod: &'a Rod, angles: &'a [f64]) -> Result<Self, RodError> {
+        if angles.len() != rod.dofs() {
+            return Err(RodError::BadInitialGuess { got: angles.len(), expected: rod.dofs() });
+        }
+        Ok(Self { rod, angles, nodes: rod.nodes(angles) })
+    }
+
+    /// The rod.
+    pub fn rod(&self) -> &'a Rod {
+        self.rod
+    }
+
+    /// The angles (rad).
+    pub fn angles(&self) -> &'a [f64] {
+        self.angles
+    }
+
+    /// The nodes: clamp, chamber start, element ends, tip end (m), as [`Rod::nodes`].
+    pub fn nodes(&self) -> &[Vec2] {
+        &self.nodes
+    }
+
+    /// Position of a material point (m); equals [`Rod::position`].
+    ///
+    /// # Errors
+    /// A point off the rod.
+    pub fn position(&self, p: MaterialPoint) -> Result<Vec2, RodError> {
+        // element i starts at node i + 1 (node 0 is the clamp); the cap at node n + 1
+        self.rod.position_from(self.angles, p, |i| self.nodes[i + 1])
     }
 }
 

@@ -121,8 +121,9 @@ impl PointDerivatives {
         let d_uu = a * s2 * dv;
         let d_uv = a * s1 * nv;
         let d_vv = -a * s0 * dv;
-        let o_w = y * direction(w);
-        let o_ww = -y * section_up(w);
+        // the offset along the section's up direction (none for a chord of the layer)
+        let (o_w, o_ww) =
+            if y == 0.0 { (Vec2::ZERO, Vec2::ZERO) } else { (y * direction(w), -y * section_up(w)) };
         // partials of (u, v, w) with respect to (A, B)
         let du = [-0.5 * f, 0.5 * f];
         let dvv = [1.0 - 0.5 * f, 0.5 * f];
@@ -251,21 +252,7 @@ impl<'a> Placement<'a> {
 
     /// Position of a material point (m); equals [`Rod::position`].
     pub(crate) fn position(&self, p: MaterialPoint) -> Result<Vec2, RodError> {
-        let rod = self.rod;
-        let h = rod.element_length();
-        let angle = |j: usize| if j == 0 { 0.0 } else { self.angles[j - 1] };
-        Ok(match rod.segment(p.s)? {
-            Segment::Base => Vec2::new(0.0, p.s) + p.y * section_up(0.0),
-            Segment::Element(i, a) => {
-                let prev = angle(i);
-                let end = prev + (self.angles[i] - prev) * a / h;
-                self.starts[i] + super::chord(a, prev, end) + p.y * section_up(end)
-            }
-            Segment::Cap(a) => {
-                let prev = angle(rod.elements);
-                self.starts[rod.elements] + a * direction(prev) + p.y * section_up(prev)
-            }
-        })
+        self.rod.position_from(self.angles, p, |i| self.starts[i])
     }
 
     /// Derivatives of a material point's position; equals [`point_derivatives`].

@@ -412,7 +412,8 @@ fn distributed_load_matches_the_euler_bernoulli_cantilever() {
     assert_relative_eq!(tip, q * l.powi(4) / (8.0 * ei), max_relative = 5e-4);
 }
 
-/// The placement cache gives the same numbers as walking the chain for every point
+/// The placement cache and the node chain give the same numbers as walking the chain
+/// for every point
 /// (`Rod::position`, `point_derivatives`: bit for bit, the same terms in the same order),
 /// and those numbers are right: on a uniform bend every point of the reference line lies
 /// on the arc of `FingerShape` (Webster & Jones, IJRR 29(13), 2010: constant curvature),
@@ -439,6 +440,7 @@ fn placement_equals_the_chain_walk_and_its_derivatives_are_the_slopes() {
     for (s, y) in [(0.003, 0.001), (0.0137, -0.002), (0.061, 0.004), (0.1049, -0.001), (0.113, 0.003)] {
         let p = MaterialPoint { s, y };
         assert_eq!(placed.position(p).unwrap(), rod.position(&bent, p).unwrap());
+        assert_eq!(Chain::new(&rod, &bent).unwrap().position(p).unwrap(), rod.position(&bent, p).unwrap());
         let fast = placed.derivatives(p).unwrap();
         let slow = point_derivatives(&rod, &bent, p).unwrap();
         assert_eq!(fast.first, slow.first);
@@ -458,4 +460,5 @@ fn placement_equals_the_chain_walk_and_its_derivatives_are_the_slopes() {
         }
     }
     assert!(Placement::new(&rod, &bent[..5]).is_err());
+    assert!(Chain::new(&rod, &bent[..5]).is_err());
 }

@@ -61,8 +61,17 @@ pub const PENETRATION_TOLERANCE: f64 = 1e-5;
 /// the far one (a thin palm passed through), the linearisation does not hold, and the
 /// pressure step is retried smaller.
 const MAX_STEP_DEPTH: f64 = 0.25;
-/// Pressure steps of the ramp from zero to the supply pressure.
-pub(super) const RAMP_STEPS: usize = 4;
+/// Largest pressure step (Pa) of the ramp from open (straight, at zero pressure): the
+/// ramp to a pressure `p` takes `ceil(p / RAMP_STEP)` equal steps (4 to the demo's
+/// 100 kPa supply, one to a sweep's first point at 20 kPa). A closing from a nearby
+/// closed state (the previous point of a sweep) tries the whole step at once.
+pub(super) const RAMP_STEP: f64 = 25e3;
+
+/// The first pressure step (Pa) of a closing from `from` to `to`: the whole way from a
+/// closed state (`warm`), an equal share of at most [`RAMP_STEP`] from open.
+pub(super) fn first_pressure_step(from: f64, to: f64, warm: bool) -> f64 {
+    if warm { to - from } else { (to - from) / ((to - from).abs() / RAMP_STEP).ceil().max(1.0) }
+}
 /// SQP steps (each with a fresh linearisation of the contact geometry) allowed per
 /// pressure step.
 pub(super) const MAX_STEPS: usize = 60;
@@ -404,9 +413,7 @@ pub fn close_finger(
         None => (0.0, vec![0.0; rod.dofs()]),
     };
     let span = (pressure - p_done).abs().max(1.0);
-    // from straight, ramp in RAMP_STEPS; from a nearby closed state (a sweep), try the
-    // whole step first
-    let mut dp = if start.is_some() { pressure - p_done } else { (pressure - p_done) / RAMP_STEPS as f64 };
+    let mut dp = first_pressure_step(p_done, pressure, start.is_some());
     let mut report = fresh_report();
     let mut last: Option<StepResult> = None;
     let mut halvings = 0;

@@ -20,9 +20,9 @@ use parry3d_f64::bounding_volume::BoundingVolume;
 use parry3d_f64::query;
 
 use super::closing::{
-    ClosedFinger, Linearised, MAX_STEPS, MIN_MOVE, Obstacles, PENETRATION_TOLERANCE, PREDICTION, RAMP_STEPS,
-    STEP_TOLERANCE, element_index, fresh_report, is_closed, linearise, object_contacts, turns_back,
-    weight_loads,
+    ClosedFinger, Linearised, MAX_STEPS, MIN_MOVE, Obstacles, PENETRATION_TOLERANCE, PREDICTION,
+    STEP_TOLERANCE, element_index, first_pressure_step, fresh_report, is_closed, linearise, object_contacts,
+    turns_back, weight_loads,
 };
 use crate::actuator::Actuator;
 use crate::geometry::{FingerBody, FingerFrame, PieceKind};
@@ -324,7 +324,7 @@ pub fn close_together(
     }
     let mut report = fresh_report();
     let span = (pressure - p_done).abs().max(1.0);
-    let mut dp = if warm { pressure - p_done } else { (pressure - p_done) / RAMP_STEPS as f64 };
+    let mut dp = first_pressure_step(p_done, pressure, warm);
     let mut halvings = 0;
     let mut last: Option<Settled> = None;
     while (p_done - pressure).abs() > 1e-12 * span {
@@ -421,10 +421,13 @@ mod tests {
             .enumerate()
             .map(|(index, &frame)| Member { index, actuator: &a, rod: &rod, frame, model })
             .collect();
-        // the wall x = 0: a box filling x < 0 below the hub
+        // the wall x = 0: a box filling x < 0 below the hub. It stands 0.1 nm past the
+        // mirror plane, so that the mirrored fingertips overlap by 0.2 nm: touching corner
+        // to corner at a round-off distance instead, their closest points would give no
+        // defined normal (any direction between the two corners)
         let wall = ObjectGeometry::new(
             &ObjectShape::Box { size: Vec3::new(0.2, 0.2, 0.2) },
-            Vec3::new(-0.1, 0.0, -0.1),
+            Vec3::new(-0.1 + 1e-10, 0.0, -0.1),
         )
         .unwrap();
         let w =

@@ -9,8 +9,10 @@
 //! closed again together, each an obstacle of the others ([`super::coupled`]); bodies of
 //! different fingers that still intersect then are interference. The verdict passes only if every criterion of the scene holds.
 //!
-//! Objects are independent and evaluated in parallel (rayon); each object's sweep runs in
-//! ascending pressure, each closing starting from the previous pressure's closed fingers.
+//! Objects are independent and evaluated in parallel (rayon). Each object is evaluated
+//! along one path of rising pressure, the sweep's pressures with the supply pressure
+//! among them, each closing starting from the previous pressure's closed fingers (the
+//! first from open), as the fingers close when the supply valve is opened slowly.
 //! Results are collected in scene order, so they do not depend on the thread count.
 
 use parry3d_f64::bounding_volume::BoundingVolume;
@@ -559,34 +561,35 @@ pub fn check_scene(scene: &Scene, settings: &CheckSettings) -> Result<CheckRepor
                 };
                 return Ok((report, vec![false; sweep.len()]));
             }
-            let supply = evaluate(&rig, object, geometry, pressure, settings, None, Detail::Full)?;
+            // one quasi-static path of rising pressure through the sweep's pressures and
+            // the supply pressure (each closing from the previous one's state, the first
+            // from open): every criterion at the supply pressure, the verdict alone at the
+            // other sweep points; a sweep point at the supply pressure takes the supply's
+            // verdict, so the window agrees with it there
+            let mut path = sweep.clone();
+            if !sweep.contains(&pressure) {
+                path.push(pressure);
+                path.sort_by(f64::total_cmp);
+            }
+            let mut supply = None;
             let mut passes = Vec::with_capacity(sweep.len());
             let mut starts: Option<Vec<(f64, Vec<f64>)>> = None;
-            let mut supply_closed = Some(supply.closed);
-            for &p in &sweep {
-                // the sweep point at the supply pressure is the supply's own closing and
-                // verdict (the same criteria): one solve fewer, and the window agrees with
-                // the verdict at the supply pressure
-                let (pass, closed) = match supply_closed.take_if(|_| p == pressure) {
-                    Some(closed) => (supply.report.verdict == Verdict::Pass, closed),
-                    None => {
-                        let e = evaluate(
-                            &rig,
-                            object,
-                            geometry,
-                            p,
-                            settings,
-                            starts.as_deref(),
-                            Detail::Verdict,
-                        )?;
-                        (e.report.verdict == Verdict::Pass, e.closed)
-                    }
-                };
-                passes.push(pass);
-                let converged = closed.iter().all(|c| c.report.status == SolveStatus::Converged);
-                starts = converged.then(|| closed.into_iter().map(|c| (p, c.angles)).collect());
+            for &p in &path {
+                let at_supply = p == pressure;
+                let detail = if at_supply { Detail::Full } else { Detail::Verdict };
+                let e = evaluate(&rig, object, geometry, p, settings, starts.as_deref(), detail)?;
+                if sweep.contains(&p) {
+                    passes.push(e.report.verdict == Verdict::Pass);
+                }
+                let converged = e.closed.iter().all(|c| c.report.status == SolveStatus::Converged);
+                starts = converged.then(|| e.closed.into_iter().map(|c| (p, c.angles)).collect());
+                if at_supply {
+                    supply = Some(e.report);
+                }
             }
-            let mut report = supply.report;
+            let supply = supply
+                .ok_or_else(|| CheckError::Geometry("the supply pressure is not on the path".into()))?;
+            let mut report = supply;
             report.pressure_window = widest_run(&passes).map(|(a, b)| (sweep[a], sweep[b]));
             Ok((report, passes))
         })

@@ -44,6 +44,35 @@ fn review_of_two_candidates_is_self_contained_and_escaped() {
     let md = std::fs::read_to_string(tmp.path().join("rv/review.md")).unwrap();
     assert!(md.contains("ball &lt;script&gt;alert(1)&lt;/script&gt; &amp; \"co\""), "{md}");
     assert!(md.contains("| ball | FAIL | FAIL |"), "{md}");
+    // the fabrication table repeats the fabrication sheet's own figures for each
+    // candidate's actuator (what `arcfinger fab --json` says for the same scene)
+    let fab = arcfinger_in(tmp.path(), &["fab", &a.display().to_string(), "--json", "-"]).expect_code(0);
+    let fab: serde_json::Value = serde_json::from_str(&fab.stdout).unwrap();
+    let sheet = &fab["actuators"][0];
+    let table =
+        doc.descendants().find(|n| n.attribute("id") == Some("fabrication")).expect("a fabrication table");
+    let cells: Vec<Vec<String>> = table
+        .children()
+        .filter(|n| n.tag_name().name() == "tr")
+        .skip(1)
+        .map(|r| {
+            r.children().filter(|n| n.is_element()).map(|c| c.text().unwrap_or("").to_string()).collect()
+        })
+        .collect();
+    assert_eq!(cells.len(), 2, "one actuator per candidate: {cells:?}");
+    for (k, row) in cells.iter().enumerate() {
+        assert_eq!(row[0], format!("C{}", k + 1));
+        assert_eq!(row[1], sheet["name"].as_str().unwrap());
+        assert_eq!(row[2], "3", "three fingers");
+        let number = |i: usize| row[i].parse::<f64>().unwrap();
+        assert!((number(3) - sheet["rubber_volume_ml"].as_f64().unwrap()).abs() <= 0.05, "{row:?}");
+        let per_finger = sheet["silicone_mass_g"]["total"].as_f64().unwrap();
+        assert!((number(4) - per_finger).abs() <= 0.05, "{row:?}");
+        assert!((number(5) - 3.0 * per_finger).abs() <= 0.05, "{row:?}");
+        assert!((number(6) - sheet["fiber"]["total_length_mm"].as_f64().unwrap() * 1e-3).abs() <= 0.005);
+        assert!(row[7].contains("required"), "{row:?}");
+    }
+    assert!(md.contains("Fabrication, per finger"), "{md}");
 }
 
 #[test]

@@ -177,7 +177,39 @@ pub fn page(cands: &[Candidate]) -> Result<String, AppError> {
         }
     }
     s.push_str("</div>\n");
-    s.push_str("<h2>Fabrication</h2>\n<p>No fabrication summary: the fabrication sheet is not part of this build.</p>\n");
+    s.push_str(
+        "<h2>Fabrication</h2>\n<p>Per finger unless said otherwise, from the fabrication sheet \
+                (<code>arcfinger fab SCENE</code> gives the molds, cut templates and process) with its \
+                common-practice shop values: a 1:1 mix by mass with its waste allowance, bonding coats, \
+                fiber tie-offs.</p>\n<table id=\"fabrication\"><tr><th>candidate</th><th>actuator</th>\
+                <th>fingers</th><th>cast rubber (ml)</th><th>silicone to mix (g)</th>\
+                <th>silicone for the gripper (g)</th><th>fiber (m)</th><th>wrap-pitch margin</th></tr>\n",
+    );
+    for (k, c) in cands.iter().enumerate() {
+        match &c.fab {
+            Ok(doc) => {
+                for a in &doc.actuators {
+                    let _ = writeln!(
+                        s,
+                        "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td></tr>",
+                        label(k),
+                        esc(&a.name),
+                        a.fingers,
+                        fixed(a.rubber_volume_ml, 1),
+                        fixed(a.silicone_mass_g.total, 1),
+                        fixed(a.silicone_mass_g.total * a.fingers as f64, 1),
+                        fixed(a.fiber.total_length_mm * 1e-3, 2),
+                        esc(&super::wrap_margin(&a.wrap)),
+                    );
+                }
+            }
+            Err(e) => {
+                let _ =
+                    writeln!(s, "<tr><td>{}</td><td colspan=\"7\">no sheet: {}</td></tr>", label(k), esc(e));
+            }
+        }
+    }
+    s.push_str("</table>\n");
     let _ = write!(s, "<h2>Cautions</h2>\n<p class=\"caution\">{}</p>\n</body>\n</html>\n", esc(CAUTIONS));
     Ok(s)
 }

@@ -1,5 +1,5 @@
-//! The Markdown summary for a pull request: candidates, the verdict matrix, and the
-//! cautions. User text goes through the check report's Markdown escape.
+//! The Markdown summary for a pull request: candidates, the verdict matrix, the
+//! fabrication figures and the cautions. User text goes through the check report's Markdown escape.
 
 use std::fmt::Write as _;
 
@@ -41,6 +41,29 @@ pub fn summary(cands: &[Candidate]) -> String {
             let _ = write!(s, " {cell} |");
         }
         s.push('\n');
+    }
+    s.push_str("\nFabrication, per finger (`arcfinger fab SCENE` for the whole sheet):\n\n\
+                | | actuator | fingers | silicone to mix (g) | fiber (m) | wrap-pitch margin |\n|---|---|---|---|---|---|\n");
+    for (k, c) in cands.iter().enumerate() {
+        match &c.fab {
+            Ok(doc) => {
+                for a in &doc.actuators {
+                    let _ = writeln!(
+                        s,
+                        "| C{} | {} | {} | {} | {} | {} |",
+                        k + 1,
+                        escape(&a.name),
+                        a.fingers,
+                        fixed(a.silicone_mass_g.total, 1),
+                        fixed(a.fiber.total_length_mm * 1e-3, 2),
+                        escape(&super::wrap_margin(&a.wrap))
+                    );
+                }
+            }
+            Err(e) => {
+                let _ = writeln!(s, "| C{} | no sheet: {} | | | | |", k + 1, escape(e));
+            }
+        }
     }
     let _ = writeln!(s, "\n{CAUTIONS}");
     s

@@ -12,7 +12,8 @@
 //! ([`Candidate::picture`]), drawn by the offscreen renderer when the build has the
 //! `viewer` feature ([`pictures`]). Without it, or without a Vulkan adapter, the slot
 //! says why ([`Candidate::picture_note`]); the layout stays the same.
-//! A fabrication summary is likewise announced as not available.
+//! The fabrication summary gives, per actuator a candidate uses, what `arcfinger fab`
+//! computes for it (silicone, fiber, wrap-pitch margin), with the same shop values.
 //!
 //! Exit codes: 0 when some candidate passes every object, 1 when none does, 3 when a
 //! solve did not converge for some candidate (the reports are written in all three
@@ -30,6 +31,7 @@ use grasp_core::scene::Scene;
 
 use crate::cli::ReviewArgs;
 use crate::commands::bend::{BendDoc, MAX_ELEMENTS, MIN_ELEMENTS};
+use crate::commands::fab::FabDoc;
 use crate::error::{AppError, Outcome};
 use crate::output::{refuse_overwrite, write_atomic};
 use crate::report::{Status, overall_status};
@@ -50,6 +52,9 @@ pub struct Candidate {
     pub report: CheckReport,
     /// Bend and blocked-force curves of the actuators its fingers use.
     pub bends: Vec<BendDoc>,
+    /// The fabrication sheet's figures for the actuators its fingers use, or why there
+    /// are none.
+    pub fab: Result<FabDoc, String>,
     /// A PNG picture of the candidate holding its objects, when a renderer provides one.
     pub picture: Option<Vec<u8>>,
     /// What the picture shows, or why there is none.
@@ -131,6 +136,20 @@ impl Candidate {
     }
 }
 
+/// A wrap-pitch margin as the review prints it: `"5.96 (2.00 required)"`, or why there is
+/// none.
+pub fn wrap_margin(w: &crate::commands::fab::WrapDoc) -> String {
+    match w.margin {
+        Some(m) => format!(
+            "{} ({} required){}",
+            crate::report::fixed(m, 2),
+            crate::report::fixed(w.required_margin, 2),
+            if w.ok { "" } else { ", short" }
+        ),
+        None => "the turns touch: no free span".to_string(),
+    }
+}
+
 /// Object names over all candidates, in order of first appearance.
 pub fn object_names(cands: &[Candidate]) -> Vec<String> {
     let mut names: Vec<String> = Vec::new();
@@ -144,18 +163,32 @@ pub fn object_names(cands: &[Candidate]) -> Vec<String> {
     names
 }
 
-fn bends(scene: &Scene, elements: usize) -> Result<Vec<BendDoc>, AppError> {
+/// The actuators the scene's fingers use, in the scene's order.
+fn used_actuators(scene: &Scene) -> Vec<&grasp_core::actuator::Actuator> {
     let mut used: Vec<usize> = scene.gripper.fingers.iter().map(|f| f.actuator).collect();
     used.sort_unstable();
     used.dedup();
-    used.into_iter()
-        .filter_map(|i| scene.actuators.get(i))
+    used.into_iter().filter_map(|i| scene.actuators.get(i)).collect()
+}
+
+fn bends(scene: &Scene, elements: usize) -> Result<Vec<BendDoc>, AppError> {
+    used_actuators(scene)
+        .into_iter()
         .map(|a| {
             let top = a.max_pressure * 1e-3;
             let pressures: Vec<f64> = (0..=BEND_STEPS).map(|k| top * k as f64 / BEND_STEPS as f64).collect();
             crate::commands::bend::compute(a, &pressures, a.section_model, elements)
         })
         .collect()
+}
+
+/// The fabrication sheet's document for the actuators `scene`'s fingers use, with the
+/// sheet's own shop values; the reason when the sheet refuses an actuator.
+fn fab(scene: &Scene) -> Result<FabDoc, String> {
+    let settings = grasp_core::fab::FabSettings::default();
+    crate::commands::fab::compute(scene, &used_actuators(scene), &settings)
+        .map(|(doc, _)| doc)
+        .map_err(|e| e.to_string())
 }
 
 /// Runs `review`.
@@ -187,11 +220,13 @@ pub fn run(args: ReviewArgs) -> Result<Outcome, AppError> {
     for (path, scene) in loaded {
         let report = grasp_core::check::check_scene(&scene, &settings)?;
         let bends = bends(&scene, args.elements.max(MIN_ELEMENTS))?;
+        let fab = fab(&scene);
         cands.push(Candidate {
             file: path.display().to_string(),
             scene,
             report,
             bends,
+            fab,
             picture: None,
             picture_note: NO_RENDERER.to_string(),
         });

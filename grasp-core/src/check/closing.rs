@@ -75,13 +75,13 @@ pub(super) fn first_pressure_step(from: f64, to: f64, warm: bool) -> f64 {
 /// SQP steps (each with a fresh linearisation of the contact geometry) allowed per
 /// pressure step.
 pub(super) const MAX_STEPS: usize = 60;
-/// SQP steps allowed in one whole closing, over all its pressure steps and retries. A
-/// closing that settles needs far fewer: on the demo sweep's 10 000 single-finger
-/// closings at most 75 (8 on average from the previous sweep point, 23 from open),
-/// while one that never settles (a finger slipping off past a limit point, where no
-/// nearby equilibrium exists) would otherwise spend [`MAX_STEPS`] on every one of its
-/// [`MAX_HALVINGS`] smaller steps, ten times this, before it is reported.
-pub(super) const CLOSING_BUDGET: usize = 4 * MAX_STEPS;
+/// SQP steps allowed in one whole closing, over all its pressure steps and retries: a
+/// first attempt and one halved attempt of [`MAX_STEPS`] each. A closing that settles
+/// needs far fewer: on the demo sweep's 10 000 single-finger closings at most 82 (8 on
+/// average from the previous sweep point, 10 from open), while one that never settles
+/// (a finger slipping past a limit point, where no nearby equilibrium exists) would
+/// otherwise spend [`MAX_STEPS`] on every one of its [`MAX_HALVINGS`] smaller steps.
+pub(super) const CLOSING_BUDGET: usize = 2 * MAX_STEPS;
 /// Largest angle step (rad) of a settled state: the next step would not move it.
 pub(super) const STEP_TOLERANCE: f64 = 1e-9;
 /// Pressure-step halvings allowed in one closing.

@@ -44,9 +44,10 @@ const COUPLED_STEPS: usize = 2 * MAX_STEPS;
 /// pressure; smaller and smaller steps then only creep toward it. Steps down to 1/64 of
 /// the way are tried; past that the closing is reported as not converged.
 const COUPLED_HALVINGS: usize = 6;
-/// SQP steps allowed in one whole coupled closing, over all its pressure steps. On the
-/// demo sweep's coupled closings one that settled took at most 327 (most under 80);
-/// one that never settles would otherwise spend [`COUPLED_STEPS`] on each of its
+/// SQP steps allowed in one whole coupled closing, over all its pressure steps: a first
+/// attempt and one halved attempt of [`COUPLED_STEPS`] each. On the demo sweep's coupled
+/// closings one that settled took at most 229 (most under 80; one pressure step at most
+/// 95); one that never settles would otherwise spend [`COUPLED_STEPS`] on each of its
 /// [`COUPLED_HALVINGS`] smaller steps before it is reported.
 const COUPLED_BUDGET: usize = 2 * COUPLED_STEPS;
 

@@ -566,8 +566,9 @@ pub fn check_scene(scene: &Scene, settings: &CheckSettings) -> Result<CheckRepor
             // from open): every criterion at the supply pressure, the verdict alone at the
             // other sweep points; a sweep point at the supply pressure takes the supply's
             // verdict, so the window agrees with it there
+            let supply_on_sweep = sweep.contains(&pressure);
             let mut path = sweep.clone();
-            if !sweep.contains(&pressure) {
+            if !supply_on_sweep {
                 path.push(pressure);
                 path.sort_by(f64::total_cmp);
             }
@@ -578,7 +579,7 @@ pub fn check_scene(scene: &Scene, settings: &CheckSettings) -> Result<CheckRepor
                 let at_supply = p == pressure;
                 let detail = if at_supply { Detail::Full } else { Detail::Verdict };
                 let e = evaluate(&rig, object, geometry, p, settings, starts.as_deref(), detail)?;
-                if sweep.contains(&p) {
+                if !at_supply || supply_on_sweep {
                     passes.push(e.report.verdict == Verdict::Pass);
                 }
                 let converged = e.closed.iter().all(|c| c.report.status == SolveStatus::Converged);

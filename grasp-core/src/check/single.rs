@@ -3,10 +3,12 @@
 //!
 //! The report is the grasp check's own: [`check_scene`] on the scene reduced to that
 //! object, at that pressure, with no sweep, so every number equals what `check` reports
-//! for the object at that pressure. The closed shapes come from the closing stage called
-//! exactly as the check calls it at the supply pressure (each finger from open, against
-//! the object and the palm). The closing therefore runs twice; the check does not hand
-//! out its closed fingers.
+//! for the object at that pressure on a scene without a sweep. (With a sweep, the check
+//! reaches its supply pressure along the sweep's pressures: the same equilibrium to the
+//! closing's tolerance, unless the closing has two, as fingers pressed against each
+//! other do.) The closed shapes come from the closing stage called as the check calls
+//! it from open (each finger against the object and the palm). The closing therefore
+//! runs twice; the check does not hand out its closed fingers.
 
 use super::closing::{ClosedFinger, Obstacles, close_finger};
 use super::{CheckError, CheckSettings, Failure, FingerReport, ObjectReport, check_scene};
@@ -133,5 +135,41 @@ mod tests {
         assert_eq!(wide.report.failures[0].kind(), "does-not-fit");
         assert!(wide.closed_angles.iter().all(|a| a.iter().all(|x| *x == 0.0)));
         assert!(check_object(&scene, 99, 1e4, &settings).is_err());
+    }
+
+    /// The check reaches the supply pressure along the sweep's pressures, here with the
+    /// supply between two of them: the window lists sweep pressures only, and the report
+    /// at the supply is the same equilibrium as the check without a sweep (closing from
+    /// open) to the closing's tolerance (residual 1e-8 relative, DESIGN 3.3). A 32 mm
+    /// ball low between the two fingers: both reach it at every pressure of the sweep,
+    /// without meeting each other (a unique equilibrium).
+    #[test]
+    fn the_supply_reached_along_the_sweep_is_the_same_equilibrium() {
+        let mut scene = demo_scene();
+        scene.objects.truncate(1);
+        scene.objects[0].shape = ObjectShape::Sphere { radius: 0.016 };
+        scene.objects[0].position = Vec3::new(0.0, 0.0, -0.08);
+        scene.criteria.lateral_accel = 0.0;
+        scene.criteria.pressure = 14e3;
+        let settings = CheckSettings::default();
+        let from_open = check_scene(&scene, &settings).unwrap();
+        scene.criteria.sweep = Some(crate::scene::PressureSweep { from: 8e3, to: 24e3, step: 4e3 });
+        let along = check_scene(&scene, &settings).unwrap();
+        let (a, b) = (&from_open.objects[0], &along.objects[0]);
+        assert_eq!(a.verdict, b.verdict);
+        assert_eq!(b.fingers_in_contact, 2, "both fingers reach the ball");
+        assert_eq!(a.contacts.len(), b.contacts.len());
+        let close = |x: f64, y: f64| (x - y).abs() <= 1e-6 * x.abs().max(1e-9);
+        for (p, q) in a.contacts.iter().zip(&b.contacts) {
+            assert!(close(p.normal_force, q.normal_force), "{} vs {}", p.normal_force, q.normal_force);
+            assert!((p.point - q.point).length() < 1e-8, "{:?} vs {:?}", p.point, q.point);
+        }
+        assert!(close(a.holding.lift, b.holding.lift), "{} vs {}", a.holding.lift, b.holding.lift);
+        assert_eq!(a.pressure_window, None, "no sweep, no window");
+        let (lo, hi) = b.pressure_window.expect("the ball is held somewhere on the sweep");
+        for p in [lo, hi] {
+            let k = (p - 8e3) / 4e3;
+            assert!((k - k.round()).abs() < 1e-9 && (0.0..=4.0).contains(&k), "{p} Pa is a sweep pressure");
+        }
     }
 }

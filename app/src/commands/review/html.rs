@@ -185,27 +185,15 @@ pub fn page(cands: &[Candidate]) -> Result<String, AppError> {
                 <th>fingers</th><th>cast rubber (ml)</th><th>silicone to mix (g)</th>\
                 <th>silicone for the gripper (g)</th><th>fiber (m)</th><th>wrap-pitch margin</th></tr>\n",
     );
-    for (k, c) in cands.iter().enumerate() {
-        match &c.fab {
-            Ok(doc) => {
-                for a in &doc.actuators {
-                    let _ = writeln!(
-                        s,
-                        "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td></tr>",
-                        label(k),
-                        esc(&a.name),
-                        a.fingers,
-                        fixed(a.rubber_volume_ml, 1),
-                        fixed(a.silicone_mass_g.total, 1),
-                        fixed(a.silicone_mass_g.total * a.fingers as f64, 1),
-                        fixed(a.fiber.total_length_mm * 1e-3, 2),
-                        esc(&super::wrap_margin(&a.wrap)),
-                    );
-                }
+    for (k, row) in super::fab_rows(cands) {
+        match row {
+            Ok(cells) => {
+                let cells: String = cells.iter().map(|c| format!("<td>{}</td>", esc(c))).collect();
+                let _ = writeln!(s, "<tr><td>{}</td>{cells}</tr>", label(k));
             }
             Err(e) => {
                 let _ =
-                    writeln!(s, "<tr><td>{}</td><td colspan=\"7\">no sheet: {}</td></tr>", label(k), esc(e));
+                    writeln!(s, "<tr><td>{}</td><td colspan=\"7\">no sheet: {}</td></tr>", label(k), esc(&e));
             }
         }
     }

@@ -44,24 +44,19 @@ pub fn summary(cands: &[Candidate]) -> String {
     }
     s.push_str("\nFabrication, per finger (`arcfinger fab SCENE` for the whole sheet):\n\n\
                 | | actuator | fingers | silicone to mix (g) | fiber (m) | wrap-pitch margin |\n|---|---|---|---|---|---|\n");
-    for (k, c) in cands.iter().enumerate() {
-        match &c.fab {
-            Ok(doc) => {
-                for a in &doc.actuators {
-                    let _ = writeln!(
-                        s,
-                        "| C{} | {} | {} | {} | {} | {} |",
-                        k + 1,
-                        escape(&a.name),
-                        a.fingers,
-                        fixed(a.silicone_mass_g.total, 1),
-                        fixed(a.fiber.total_length_mm * 1e-3, 2),
-                        escape(&super::wrap_margin(&a.wrap))
-                    );
-                }
+    for (k, row) in super::fab_rows(cands) {
+        match row {
+            Ok([actuator, fingers, _, silicone, _, fiber, wrap]) => {
+                let _ = writeln!(
+                    s,
+                    "| C{} | {} | {fingers} | {silicone} | {fiber} | {} |",
+                    k + 1,
+                    escape(&actuator),
+                    escape(&wrap)
+                );
             }
             Err(e) => {
-                let _ = writeln!(s, "| C{} | no sheet: {} | | | | |", k + 1, escape(e));
+                let _ = writeln!(s, "| C{} | no sheet: {} | | | | |", k + 1, escape(&e));
             }
         }
     }

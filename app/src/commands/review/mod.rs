@@ -150,6 +150,32 @@ pub fn wrap_margin(w: &crate::commands::fab::WrapDoc) -> String {
     }
 }
 
+/// The fabrication table's rows: per candidate (index) and actuator it uses, the cells
+/// `[actuator, fingers, cast rubber (ml), silicone to mix (g), silicone for the gripper
+/// (g), fiber (m), wrap-pitch margin]` as text (not escaped), or why there is no sheet.
+pub fn fab_rows(cands: &[Candidate]) -> Vec<(usize, Result<[String; 7], String>)> {
+    use crate::report::fixed;
+    let mut rows = Vec::new();
+    for (k, c) in cands.iter().enumerate() {
+        match &c.fab {
+            Ok(doc) => rows.extend(doc.actuators.iter().map(|a| {
+                let cells = [
+                    a.name.clone(),
+                    a.fingers.to_string(),
+                    fixed(a.rubber_volume_ml, 1),
+                    fixed(a.silicone_mass_g.total, 1),
+                    fixed(a.silicone_mass_g.total * a.fingers as f64, 1),
+                    fixed(a.fiber.total_length_mm * 1e-3, 2),
+                    wrap_margin(&a.wrap),
+                ];
+                (k, Ok(cells))
+            })),
+            Err(e) => rows.push((k, Err(e.clone()))),
+        }
+    }
+    rows
+}
+
 /// Object names over all candidates, in order of first appearance.
 pub fn object_names(cands: &[Candidate]) -> Vec<String> {
     let mut names: Vec<String> = Vec::new();

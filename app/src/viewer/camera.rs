@@ -71,7 +71,11 @@ impl Plugin for CameraPlugin {
     fn build(&self, app: &mut App) {
         app.add_systems(
             Update,
-            (orbit_with_mouse, camera_actions, place_camera).chain().after(SceneSystems::Apply),
+            // before the rebuild: the parts' materials follow the shadow toggle there
+            (orbit_with_mouse, camera_actions, place_camera)
+                .chain()
+                .after(SceneSystems::Apply)
+                .before(SceneSystems::Rebuild),
         );
     }
 }

@@ -9,6 +9,8 @@
 //!   it, the colours.
 //! - [`scene`]: `ScenePlugin`, the meshes of the current [`model::ViewState`] (rebuilt
 //!   only when it changes), lights, and the [`scene::Action`]s that change it.
+//! - [`surface`]: the parts' material while shadows are off (bevy's lighting without the
+//!   shadow lookups that a CPU rasterizer pays for on every pixel).
 //! - [`camera`]: `CameraPlugin`, the orbit camera (mouse), reset, MSAA and shadows.
 //! - [`overlay`]: `OverlayPlugin`, the panel with verdict, margins, window, failures.
 //! - [`window`]: the interactive viewer (keys, reactive redraw, scripted steps).
@@ -23,6 +25,7 @@ pub mod overlay;
 pub mod palette;
 pub mod probe;
 pub mod scene;
+pub mod surface;
 pub mod window;
 
 use bevy::app::{PluginGroup, PluginGroupBuilder};

@@ -28,7 +28,7 @@ use grasp_core::scene::Scene;
 use super::camera::projection;
 use super::framing::{self, CameraPose, View};
 use super::model::ViewState;
-use super::scene::Model;
+use super::scene::{Model, Shading};
 use super::{ViewerPlugins, probe};
 use crate::error::AppError;
 
@@ -91,6 +91,17 @@ pub fn render(
     shots: &[Shot],
     size: (u32, u32),
 ) -> Result<Vec<Picture>, AppError> {
+    render_shaded(scenes, settings, shots, size, Shading::Auto)
+}
+
+/// [`render`] with the parts' material chosen by `shading`.
+fn render_shaded(
+    scenes: &[&Scene],
+    settings: &CheckSettings,
+    shots: &[Shot],
+    size: (u32, u32),
+    shading: Shading,
+) -> Result<Vec<Picture>, AppError> {
     if shots.iter().any(|s| scenes.get(s.scene).is_none_or(|sc| s.object >= sc.objects.len())) {
         return Err(AppError::input("render: scene or object index out of range"));
     }
@@ -105,6 +116,7 @@ pub fn render(
             .disable::<bevy::log::LogPlugin>(),
     )
     .add_plugins(ViewerPlugins { overlay: false })
+    .insert_resource(shading)
     .insert_resource(Model(ViewState::new(
         scenes[first.scene].clone(),
         *settings,
@@ -194,4 +206,53 @@ fn frame(app: &mut App) -> Result<(), AppError> {
         .poll(PollType::Wait { submission_index: None, timeout: Some(FRAME_TIMEOUT) })
         .map_err(|e| AppError::input(format!("render: the frame did not finish: {e}")))?;
     Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn decode(png_bytes: &[u8]) -> (u32, u32, Vec<u8>) {
+        let mut reader = png::Decoder::new(std::io::Cursor::new(png_bytes)).read_info().expect("a PNG");
+        let mut buf = vec![0; reader.output_buffer_size().expect("buffer size")];
+        let info = reader.next_frame(&mut buf).expect("a frame");
+        buf.truncate(info.buffer_size());
+        (info.width, info.height, buf)
+    }
+
+    /// The viewer's material draws what bevy's standard material draws with shadows off:
+    /// the same lighting functions, only the shadow lookups left out. The picture holds
+    /// palm, fingers, fiber winding, object and contact arrows.
+    #[test]
+    fn viewer_material_draws_what_the_standard_material_draws() {
+        if let Err(e) = probe::vulkan_adapter() {
+            assert!(
+                std::env::var_os("ARCFINGER_REQUIRE_VIEWER").is_none(),
+                "ARCFINGER_REQUIRE_VIEWER is set but this machine cannot render: {e}"
+            );
+            eprintln!("note: no Vulkan adapter, material comparison not run: {e}");
+            return;
+        }
+        let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("../scenes/packing-line-3f.ron");
+        let scene = crate::scene_file::load(&root).expect("the demo scene loads");
+        let shot = Shot { scene: 0, object: 0, pressure: 100e3, view: View::Iso };
+        let settings = CheckSettings::default();
+        let take = |shading| {
+            let mut p = render_shaded(&[&scene], &settings, &[shot], (320, 240), shading).expect("rendered");
+            decode(&p.remove(0).png)
+        };
+        let (w, h, plain) = take(Shading::Auto);
+        let (w2, h2, standard) = take(Shading::Standard);
+        assert_eq!((w, h), (w2, h2));
+        // the picture is not the background alone: at least 5 % of it differs from the
+        // corner pixel
+        let corner = &plain[..3];
+        let drawn =
+            plain.chunks(4).filter(|p| p[..3].iter().zip(corner).any(|(a, b)| a.abs_diff(*b) > 8)).count();
+        assert!(drawn * 20 > (w * h) as usize, "only {drawn} pixels drawn");
+        // the same shader functions in another order may round differently: one step of
+        // 8-bit colour
+        let worst = plain.iter().zip(&standard).map(|(a, b)| a.abs_diff(*b)).max().unwrap_or(0);
+        assert!(worst <= 1, "pictures differ by up to {worst} in a channel");
+    }
 }

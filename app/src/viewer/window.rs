@@ -30,6 +30,9 @@ use super::{ViewerPlugins, probe};
 use crate::commands::view::ViewConfig;
 use crate::error::{AppError, Outcome};
 
+/// Extra wait of an idle step beyond its length.
+const IDLE_MARGIN: Duration = Duration::from_millis(250);
+
 /// Window size at start (pixels).
 pub const WINDOW_SIZE: (u32, u32) = (1280, 720);
 
@@ -128,8 +131,13 @@ struct Sweep(Arc<Mutex<Option<SweepOutcome>>>);
 
 /// Reactive redraw: only on input and window events (and wake-ups from the thread).
 fn reactive() -> WinitSettings {
+    reactive_for(Duration::from_secs(3600))
+}
+
+/// Reactive redraw that wakes up by itself after `wait`.
+fn reactive_for(wait: Duration) -> WinitSettings {
     let mode = UpdateMode::Reactive {
-        wait: Duration::from_secs(3600),
+        wait,
         react_to_device_events: false,
         react_to_user_events: true,
         react_to_window_events: true,
@@ -309,7 +317,9 @@ fn run_script(
     }
     if let Some((start, cpu0, secs)) = script.idle {
         if start.elapsed() < Duration::from_secs(u64::from(secs)) {
-            return; // woken early (a window event): keep waiting
+            // woken early (a window event): keep waiting; the mode stays as it is, since
+            // a change of mode makes bevy draw a frame at once
+            return;
         }
         let wall = start.elapsed().as_secs_f64();
         match (cpu0, process_cpu_seconds()) {
@@ -355,13 +365,10 @@ fn run_script(
                 return;
             }
             script.idle = Some((Instant::now(), process_cpu_seconds(), secs));
-            let mode = UpdateMode::Reactive {
-                wait: Duration::from_secs(u64::from(secs)),
-                react_to_device_events: false,
-                react_to_user_events: true,
-                react_to_window_events: true,
-            };
-            *winit = WinitSettings { focused_mode: mode, unfocused_mode: mode };
+            // bevy counts the wait from the start of this frame, a little before `now`:
+            // the margin puts the wake-up after the step's end, not just before it (which
+            // made the step last two waits)
+            *winit = reactive_for(Duration::from_secs(u64::from(secs)) + IDLE_MARGIN);
         }
         Step::Shot(path) => {
             if let Ok(mut w) = script.waiting.lock() {

@@ -308,16 +308,6 @@ impl<'a> Chain<'a> {
         self.rod
     }
 
-    /// The angles (rad).
-    pub fn angles(&self) -> &'a [f64] {
-        self.angles
-    }
-
-    /// The nodes: clamp, chamber start, element ends, tip end (m), as [`Rod::nodes`].
-    pub fn nodes(&self) -> &[Vec2] {
-        &self.nodes
-    }
-
     /// Position of a material point (m); equals [`Rod::position`].
     ///
     /// # Errors

@@ -20,8 +20,8 @@ use parry3d_f64::bounding_volume::BoundingVolume;
 use parry3d_f64::query;
 
 use super::closing::{
-    ClosedFinger, Linearised, MAX_STEPS, MIN_MOVE, Obstacles, PENETRATION_TOLERANCE, PREDICTION,
-    STEP_TOLERANCE, element_index, first_pressure_step, fresh_report, is_closed, linearise, object_contacts,
+    ClosedFinger, Linearised, MAX_STEPS, Obstacles, PENETRATION_TOLERANCE, PREDICTION, STEP_TOLERANCE,
+    element_index, first_pressure_step, fresh_report, is_closed, linearise, object_contacts, stalled,
     turns_back, weight_loads,
 };
 use crate::actuator::Actuator;
@@ -272,7 +272,7 @@ fn settle(
         let turns_back = turns_back(previous_step.as_deref(), &flat);
         if turns_back {
             max_move *= 0.5;
-            if max_move < MIN_MOVE {
+            if stalled(max_move, step.residual) {
                 report.status = SolveStatus::Stalled;
                 return Ok(None);
             }
@@ -341,7 +341,9 @@ pub fn close_together(
             }
             None => {
                 halvings += 1;
-                dp *= 0.5;
+                // half the step that failed: a step grown past the rest of the way
+                // was cut to it, and the same step from the same state fails again
+                dp = 0.5 * (target - p_done);
                 if halvings > COUPLED_HALVINGS
                     || dp.abs() < span / 4096.0
                     || report.iterations >= COUPLED_BUDGET

@@ -334,9 +334,9 @@ fn settle(
     let mut max_move = 0.5 * prediction;
     for _ in 0..MAX_STEPS.min(CLOSING_BUDGET.saturating_sub(report.iterations)) {
         report.iterations += 1;
-        let body = FingerBody::new_where(rod, &angles, &actuator.section, frame, &near)
-            .map_err(|e| e.to_string())?;
         let chain = Chain::new(rod, &angles).map_err(|e| e.to_string())?;
+        let body =
+            FingerBody::of_chain_where(&chain, &actuator.section, frame, &near).map_err(|e| e.to_string())?;
         let (lin, pen, too_deep) = linearise(&chain, &body, obstacles, prediction)?;
         if too_deep && prediction < rod.length() {
             return Ok(Settle::TooDeep);
@@ -347,7 +347,7 @@ fn settle(
         let curvature_forces: Vec<f64> = lin.iter().map(|l| carried(l).map_or(0.0, |q| q.2)).collect();
         let seed: Option<Vec<bool>> = (!previous.is_empty())
             .then(|| lin.iter().map(|l| carried(l).map_or_else(|| is_closed(&chain, l), |q| q.3)).collect());
-        let step = match contact_step(rod, &law, loads, &angles, &gaps, &curvature_forces, seed.as_deref()) {
+        let step = match contact_step(&chain, &law, loads, &gaps, &curvature_forces, seed.as_deref()) {
             Ok(s) => s,
             // a curvature outside the law's range, or a degenerate contact program
             Err(_) => {
@@ -376,7 +376,7 @@ fn settle(
                 return Ok(Settle::Failed);
             }
         }
-        let alpha = limit_step(rod, &angles, &mut d, max_move);
+        let alpha = limit_step(&chain, &mut d, max_move);
         if alpha >= 1.0 && !turns_back {
             max_move = (2.0 * max_move).min(0.5 * prediction);
         }

@@ -207,15 +207,18 @@ fn settle(
     let mut max_move = 0.5 * PREDICTION;
     for _ in 0..COUPLED_STEPS.min(COUPLED_BUDGET.saturating_sub(report.iterations)) {
         report.iterations += 1;
-        let bodies: Vec<FingerBody> = members
-            .iter()
-            .zip(&angles)
-            .map(|(m, a)| FingerBody::new(m.rod, a, &m.actuator.section, m.frame).map_err(|e| e.to_string()))
-            .collect::<Result<_, _>>()?;
         let chains: Vec<Chain<'_>> = members
             .iter()
             .zip(&angles)
             .map(|(m, a)| Chain::new(m.rod, a).map_err(|e| e.to_string()))
+            .collect::<Result<_, _>>()?;
+        let bodies: Vec<FingerBody> = members
+            .iter()
+            .zip(&chains)
+            .map(|(m, c)| {
+                FingerBody::of_chain_where(c, &m.actuator.section, m.frame, |_, _| true)
+                    .map_err(|e| e.to_string())
+            })
             .collect::<Result<_, _>>()?;
         let mut penetration = 0.0f64;
         let mut own = Vec::with_capacity(members.len());
@@ -254,7 +257,13 @@ fn settle(
         let blocks: Vec<RodBlock<'_>> = members
             .iter()
             .enumerate()
-            .map(|(f, m)| RodBlock { rod: m.rod, law: &laws[f], loads: &loads[f], angles: &angles[f] })
+            .map(|(f, m)| RodBlock {
+                rod: m.rod,
+                law: &laws[f],
+                loads: &loads[f],
+                angles: &angles[f],
+                nodes: Some(chains[f].nodes()),
+            })
             .collect();
         let Ok(step) = coupled_step(&blocks, &gaps, &curvature_forces, seed.as_deref()) else {
             report.status = SolveStatus::Stalled;
@@ -288,9 +297,9 @@ fn settle(
             }
         }
         let mut alpha = 1.0f64;
-        for (m, (a, d)) in members.iter().zip(angles.iter().zip(&step.steps)) {
+        for (chain, d) in chains.iter().zip(&step.steps) {
             let mut trial = d.clone();
-            alpha = alpha.min(limit_step(m.rod, a, &mut trial, max_move));
+            alpha = alpha.min(limit_step(chain, &mut trial, max_move));
         }
         if alpha >= 1.0 && !turns_back {
             max_move = (2.0 * max_move).min(0.5 * PREDICTION);
@@ -461,8 +470,10 @@ mod tests {
         assert!(!between.is_empty());
         let law = a.law(p, model);
         let loads = weight_loads(&a, &rod, &frames[0]);
-        let blocks: Vec<RodBlock<'_>> =
-            angles.iter().map(|x| RodBlock { rod: &rod, law: &law, loads: &loads, angles: x }).collect();
+        let blocks: Vec<RodBlock<'_>> = angles
+            .iter()
+            .map(|x| RodBlock { rod: &rod, law: &law, loads: &loads, angles: x, nodes: None })
+            .collect();
         let gaps: Vec<SharedGap> = between.iter().map(|l| l.gap.clone()).collect();
         let step = coupled_step(&blocks, &gaps, &vec![0.0; gaps.len()], None).unwrap();
         assert!(step.residual < 1e-7, "equilibrium: residual {}", step.residual);

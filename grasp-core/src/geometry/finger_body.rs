@@ -26,7 +26,7 @@
 
 use super::{FingerFrame, GeometryError, finite, positive};
 use crate::math::{Pose, Rotation, Vec2, Vec3};
-use crate::rod::{MaterialPoint, Rod, chord, direction, section_up};
+use crate::rod::{Chain, MaterialPoint, Rod, chord, direction, section_up};
 use crate::scene::Palm;
 use crate::section::SectionProfile;
 use parry3d_f64::bounding_volume::{Aabb, BoundingVolume};
@@ -147,9 +147,36 @@ impl FingerBody {
         for &a in angles {
             finite("finger angle", a)?;
         }
+        Self::build(rod, angles, &rod.nodes(angles), section, frame, keep)
+    }
+
+    /// Like [`Self::new_where`], at the angles of `chain`, whose nodes it reuses.
+    ///
+    /// # Errors
+    /// As [`Self::new`].
+    pub fn of_chain_where(
+        chain: &Chain<'_>,
+        section: &SectionProfile,
+        frame: FingerFrame,
+        keep: impl Fn(Vec3, f64) -> bool,
+    ) -> Result<Self, GeometryError> {
+        for &a in chain.angles() {
+            finite("finger angle", a)?;
+        }
+        Self::build(chain.rod(), chain.angles(), chain.nodes(), section, frame, keep)
+    }
+
+    /// The body from `angles` of the right length and finite, and the rod's nodes there.
+    fn build(
+        rod: &Rod,
+        angles: &[f64],
+        nodes: &[Vec2],
+        section: &SectionProfile,
+        frame: FingerFrame,
+        keep: impl Fn(Vec3, f64) -> bool,
+    ) -> Result<Self, GeometryError> {
         let outline = section_outline(section);
         let outline_reach = outline.iter().map(|q| q.length()).fold(0.0, f64::max);
-        let nodes = rod.nodes(angles);
         let h = rod.element_length();
         let mut pieces = Vec::with_capacity(rod.elements + 2);
         let mut push = |kind, s0: f64, s1: f64, p0: Vec2, p1: Vec2, a0: f64, a1: f64| {

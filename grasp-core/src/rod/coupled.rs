@@ -15,6 +15,7 @@
 use super::solve::Placement;
 use super::sqp::{Tridiagonal, complementarity, gap_terms, moment_scale};
 use super::{GAP_TOLERANCE, MomentLaw, PointGap, PointLoad, Rod, RodError};
+use crate::math::Vec2;
 
 /// One rod of a coupled step at its current angles.
 #[derive(Clone, Copy)]
@@ -27,6 +28,9 @@ pub struct RodBlock<'a> {
     pub loads: &'a [PointLoad],
     /// Its current element-end angles (rad).
     pub angles: &'a [f64],
+    /// Its [`Rod::nodes`] at `angles` when already evaluated ([`super::Chain::nodes`]),
+    /// else `None`.
+    pub nodes: Option<&'a [Vec2]>,
 }
 
 /// A gap over one or more rods: `sum (normal . x(point) - offset)` over `parts`, each
@@ -95,7 +99,7 @@ pub fn coupled_step(
         return Err(RodError::BadInput("one curvature force and seed flag per gap"));
     }
     let placements: Vec<Placement<'_>> =
-        blocks.iter().map(|b| Placement::new(b.rod, b.angles)).collect::<Result<_, _>>()?;
+        blocks.iter().map(|b| Placement::new(b.rod, b.angles, b.nodes)).collect::<Result<_, _>>()?;
     let mut tangents = Vec::with_capacity(blocks.len());
     for (b, placed) in blocks.iter().zip(&placements) {
         let t = super::solve::potential_tangent(b.rod, b.law, b.loads, b.angles, 1.0, true, Some(placed))

@@ -308,6 +308,16 @@ impl<'a> Chain<'a> {
         self.rod
     }
 
+    /// The angles (rad), one per dof.
+    pub fn angles(&self) -> &'a [f64] {
+        self.angles
+    }
+
+    /// The rod's [`Rod::nodes`] at these angles.
+    pub fn nodes(&self) -> &[Vec2] {
+        &self.nodes
+    }
+
     /// Position of a material point (m); equals [`Rod::position`].
     ///
     /// # Errors

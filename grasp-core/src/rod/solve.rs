@@ -218,24 +218,27 @@ fn second_end(j: usize) -> usize {
 }
 
 impl<'a> Placement<'a> {
-    /// The placement of `rod` at `angles` (one per dof).
-    pub(crate) fn new(rod: &'a Rod, angles: &'a [f64]) -> Result<Self, RodError> {
+    /// The placement of `rod` at `angles` (one per dof), with the rod's [`Rod::nodes`]
+    /// at these angles when already evaluated (the element starts are nodes `1..=n + 1`).
+    pub(crate) fn new(rod: &'a Rod, angles: &'a [f64], nodes: Option<&[Vec2]>) -> Result<Self, RodError> {
+        let n = rod.elements;
         if angles.len() != rod.dofs() {
             return Err(RodError::BadInitialGuess { got: angles.len(), expected: rod.dofs() });
         }
+        if nodes.is_some_and(|v| v.len() != n + 3) {
+            return Err(RodError::BadInput("the rod's nodes do not match its elements"));
+        }
         let h = rod.element_length();
-        let n = rod.elements;
-        let mut starts = Vec::with_capacity(n + 1);
         let mut chords = PointDerivatives::with_capacity(first_end(n), second_end(n));
-        let mut x = Vec2::new(0.0, rod.base_length);
         let mut prev = 0.0;
         for (j, &psi) in angles.iter().enumerate() {
-            starts.push(x);
-            x += super::chord(h, prev, psi);
             chords.add_arc(j, h, 1.0, prev, psi, 0.0);
             prev = psi;
         }
-        starts.push(x);
+        let starts = match nodes {
+            Some(v) => v[1..=n + 1].to_vec(),
+            None => rod.nodes(angles)[1..=n + 1].to_vec(),
+        };
         Ok(Self { rod, angles, starts, chords })
     }
 

@@ -30,7 +30,8 @@
 use super::coupled::{RodBlock, SharedGap, coupled_step};
 use super::solve::Placement;
 use super::{
-    ContactSolution, MomentLaw, PointGap, PointLoad, Rod, RodError, RodSolution, SolveReport, SolveStatus,
+    Chain, ContactSolution, MomentLaw, PointGap, PointLoad, Rod, RodError, RodSolution, SolveReport,
+    SolveStatus,
 };
 use super::{GAP_TOLERANCE, solve::RESIDUAL_TOLERANCE};
 
@@ -200,7 +201,8 @@ pub(super) fn moment_scale(
         .max(f64::MIN_POSITIVE))
 }
 
-/// One SQP step of the rod with dead `loads` and unilateral `gaps` at `angles`.
+/// One SQP step of the rod with dead `loads` and unilateral `gaps` at the angles of
+/// `chain`.
 ///
 /// `curvature_forces` (one per gap, N) weight the gaps' second derivatives in the
 /// Hessian of the Lagrangian: the forces of the previous step (zeros at the start).
@@ -210,15 +212,14 @@ pub(super) fn moment_scale(
 /// [`RodError`] for a point off the rod, mismatched lengths, or a law that cannot be
 /// evaluated at `angles` (a curvature outside its range).
 pub fn contact_step(
-    rod: &Rod,
+    chain: &Chain<'_>,
     law: &dyn MomentLaw,
     loads: &[PointLoad],
-    angles: &[f64],
     gaps: &[PointGap],
     curvature_forces: &[f64],
     seed: Option<&[bool]>,
 ) -> Result<ContactStep, RodError> {
-    let block = RodBlock { rod, law, loads, angles };
+    let block = RodBlock { rod: chain.rod(), law, loads, angles: chain.angles(), nodes: Some(chain.nodes()) };
     let shared: Vec<SharedGap> = gaps.iter().map(|g| SharedGap { parts: vec![(0, *g)] }).collect();
     let s = coupled_step(&[block], &shared, curvature_forces, seed)?;
     let step = s.steps.into_iter().next().ok_or(RodError::BadInput("no rod"))?;
@@ -232,17 +233,16 @@ pub fn contact_step(
     })
 }
 
-/// Limits a step so that no angle changes by more than [`MAX_STEP_RAD`] and no node of
+/// Limits a step from the angles of `chain` so that no angle changes by more than [`MAX_STEP_RAD`] and no node of
 /// the rod moves farther than `max_move` (m): the contact geometry is only linearised
 /// that far. Returns the factor applied (1 = the whole step).
-pub fn limit_step(rod: &Rod, angles: &[f64], step: &mut [f64], max_move: f64) -> f64 {
+pub fn limit_step(chain: &Chain<'_>, step: &mut [f64], max_move: f64) -> f64 {
+    let (rod, angles, before) = (chain.rod(), chain.angles(), chain.nodes());
     let big = step.iter().fold(0.0f64, |a, v| a.max(v.abs()));
     let mut alpha = if big > MAX_STEP_RAD { MAX_STEP_RAD / big } else { 1.0 };
-    let before = rod.nodes(angles);
     for _ in 0..30 {
         let trial: Vec<f64> = angles.iter().zip(step.iter()).map(|(a, d)| a + alpha * d).collect();
-        let moved =
-            rod.nodes(&trial).iter().zip(&before).map(|(a, b)| (*a - *b).length()).fold(0.0, f64::max);
+        let moved = rod.nodes(&trial).iter().zip(before).map(|(a, b)| (*a - *b).length()).fold(0.0, f64::max);
         if moved <= max_move {
             break;
         }
@@ -282,7 +282,8 @@ pub fn solve_with_gaps_sqp(
     let mut iterations = 0;
     for _ in 0..SQP_ITERATIONS {
         iterations += 1;
-        let mut s = contact_step(rod, law, loads, &angles, gaps, &forces, seed.as_deref())?;
+        let chain = Chain::new(rod, &angles)?;
+        let mut s = contact_step(&chain, law, loads, gaps, &forces, seed.as_deref())?;
         let step_size = s.step.iter().fold(0.0f64, |a, v| a.max(v.abs()));
         let violation = s.gaps.iter().fold(0.0f64, |a, g| a.max(-g));
         if s.residual <= RESIDUAL_TOLERANCE && step_size <= 1e-10 && violation <= GAP_TOLERANCE {
@@ -290,7 +291,7 @@ pub fn solve_with_gaps_sqp(
             last = Some(s);
             break;
         }
-        limit_step(rod, &angles, &mut s.step, max_move);
+        limit_step(&chain, &mut s.step, max_move);
         for (a, d) in angles.iter_mut().zip(&s.step) {
             *a += d;
         }

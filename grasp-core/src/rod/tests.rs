@@ -427,7 +427,7 @@ fn placement_equals_the_chain_walk_and_its_derivatives_are_the_slopes() {
     let k = 15.0;
     let uniform: Vec<f64> = (1..=rod.elements).map(|i| i as f64 * k * h).collect();
     let shape = FingerShape { base_length: 0.01, chamber_length: 0.1, tip_length: 0.008, curvature: k };
-    let placed = Placement::new(&rod, &uniform).unwrap();
+    let placed = Placement::new(&rod, &uniform, None).unwrap();
     for s in [0.004, 0.0137, 0.05, 0.0999, 0.1102, rod.length()] {
         let x = placed.position(MaterialPoint { s, y: 0.0 }).unwrap();
         let q = shape.point_at(s);
@@ -436,10 +436,13 @@ fn placement_equals_the_chain_walk_and_its_derivatives_are_the_slopes() {
     }
     let bent: Vec<f64> =
         (1..=rod.elements).map(|i| 2.0 * (i as f64 / 20.0).powf(1.5) + 0.05 * (i as f64).sin()).collect();
-    let placed = Placement::new(&rod, &bent).unwrap();
+    let placed = Placement::new(&rod, &bent, None).unwrap();
+    let chain = Chain::new(&rod, &bent).unwrap();
+    let from_nodes = Placement::new(&rod, &bent, Some(chain.nodes())).unwrap();
     for (s, y) in [(0.003, 0.001), (0.0137, -0.002), (0.061, 0.004), (0.1049, -0.001), (0.113, 0.003)] {
         let p = MaterialPoint { s, y };
         assert_eq!(placed.position(p).unwrap(), rod.position(&bent, p).unwrap());
+        assert_eq!(from_nodes.position(p).unwrap(), rod.position(&bent, p).unwrap());
         assert_eq!(Chain::new(&rod, &bent).unwrap().position(p).unwrap(), rod.position(&bent, p).unwrap());
         let fast = placed.derivatives(p).unwrap();
         let slow = point_derivatives(&rod, &bent, p).unwrap();
@@ -459,6 +462,7 @@ fn placement_equals_the_chain_walk_and_its_derivatives_are_the_slopes() {
             assert!((fd - *d).length() < 1e-8, "s {s}, dof {k}: {d:?} vs {fd:?}");
         }
     }
-    assert!(Placement::new(&rod, &bent[..5]).is_err());
+    assert!(Placement::new(&rod, &bent[..5], None).is_err());
+    assert!(Placement::new(&rod, &bent, Some(&chain.nodes()[..5])).is_err());
     assert!(Chain::new(&rod, &bent[..5]).is_err());
 }

@@ -5,7 +5,7 @@
 //! is `m(kappa) = M_w(kappa; p) - M_p(p)`: the net internal bending moment, zero at the
 //! free curvature (DESIGN 3.3).
 
-use super::{SectionModel, SectionQuadrature};
+use super::{SectionModel, SectionPoint, SectionQuadrature};
 use crate::material::{HyperelasticModel, StrainEnergy};
 
 /// Smallest axial stretch anywhere in the section that the model accepts (DESIGN 3.2).
@@ -116,14 +116,14 @@ impl SectionLaw {
     /// Outside [`Self::curvature_range`].
     pub fn wall_moment(&self, kappa: f64) -> Result<(f64, f64), LawError> {
         self.check_range(kappa)?;
-        let mut m = 0.0;
-        let mut dm = 0.0;
-        for q in &self.quadrature.rubber {
-            let l = 1.0 + kappa * q.y;
-            let wy = q.weight * q.y;
-            m += wy * self.material.planar_stress(l);
-            dm += wy * q.y * self.material.planar_tangent(l);
-        }
+        // one loop per material model, the model's closed forms inlined into it
+        let rubber = &self.quadrature.rubber;
+        let (mut m, mut dm) = match &self.material {
+            HyperelasticModel::NeoHookean(x) => rubber_sums(x, rubber, kappa),
+            HyperelasticModel::MooneyRivlin(x) => rubber_sums(x, rubber, kappa),
+            HyperelasticModel::Yeoh(x) => rubber_sums(x, rubber, kappa),
+            HyperelasticModel::Ogden(x) => rubber_sums(x, rubber, kappa),
+        };
         if self.model == SectionModel::WallPressure && self.pressure != 0.0 {
             let p = self.pressure;
             for q in &self.quadrature.pressure {
@@ -156,6 +156,20 @@ impl SectionLaw {
     pub fn stretch_at(kappa: f64, y: f64) -> f64 {
         1.0 + kappa * y
     }
+}
+
+/// `(sum_i w_i y_i s(1 + kappa y_i), sum_i w_i y_i^2 s'(1 + kappa y_i))` over the rubber's
+/// quadrature points, `s` the planar-tension stress of `material`.
+fn rubber_sums<M: StrainEnergy>(material: &M, rubber: &[SectionPoint], kappa: f64) -> (f64, f64) {
+    let mut m = 0.0;
+    let mut dm = 0.0;
+    for q in rubber {
+        let l = 1.0 + kappa * q.y;
+        let wy = q.weight * q.y;
+        m += wy * material.planar_stress(l);
+        dm += wy * q.y * material.planar_tangent(l);
+    }
+    (m, dm)
 }
 
 #[cfg(test)]

@@ -43,10 +43,10 @@ use parry3d_f64::shape::SharedShape;
 use super::ContactReport;
 use crate::actuator::Actuator;
 use crate::geometry::{FingerBody, FingerFrame, ObjectGeometry, PieceKind};
-use crate::math::{Pose, Vec3};
+use crate::math::{Pose, Vec2, Vec3};
 use crate::rod::{
     Chain, GAP_TOLERANCE, MaterialPoint, PointGap, PointLoad, RESIDUAL_TOLERANCE, Rod, SolveReport,
-    SolveStatus, contact_step, limit_step,
+    SolveStatus, contact_step, limit_step_with_nodes,
 };
 use crate::section::SectionModel;
 
@@ -332,9 +332,15 @@ fn settle(
     let mut previous: Vec<(PieceKind, bool, f64, bool)> = Vec::new();
     let mut previous_step: Option<Vec<f64>> = None;
     let mut max_move = 0.5 * prediction;
+    // the nodes at the angles after the previous step, from its step limit
+    let mut next_nodes: Option<Vec<Vec2>> = None;
     for _ in 0..MAX_STEPS.min(CLOSING_BUDGET.saturating_sub(report.iterations)) {
         report.iterations += 1;
-        let chain = Chain::new(rod, &angles).map_err(|e| e.to_string())?;
+        let chain = match next_nodes.take() {
+            Some(nodes) => Chain::with_nodes(rod, &angles, nodes),
+            None => Chain::new(rod, &angles),
+        }
+        .map_err(|e| e.to_string())?;
         let body =
             FingerBody::of_chain_where(&chain, &actuator.section, frame, &near).map_err(|e| e.to_string())?;
         let (lin, pen, too_deep) = linearise(&chain, &body, obstacles, prediction)?;
@@ -376,7 +382,8 @@ fn settle(
                 return Ok(Settle::Failed);
             }
         }
-        let alpha = limit_step(&chain, &mut d, max_move);
+        let (alpha, nodes) = limit_step_with_nodes(&chain, &mut d, max_move);
+        next_nodes = nodes;
         if alpha >= 1.0 && !turns_back {
             max_move = (2.0 * max_move).min(0.5 * prediction);
         }

@@ -40,7 +40,10 @@ mod unilateral;
 pub use blocked::{BlockedForce, BlockedOutcome, blocked_force_curve, blocked_tip_force};
 pub use coupled::{CoupledStep, RodBlock, SharedGap, coupled_step};
 pub use solve::{RESIDUAL_TOLERANCE, RodSolution, SolveReport, SolveStatus, solve, solve_within};
-pub use sqp::{ContactStep, MAX_STEP_RAD, SQP_ITERATIONS, contact_step, limit_step, solve_with_gaps_sqp};
+pub use sqp::{
+    ContactStep, MAX_STEP_RAD, SQP_ITERATIONS, contact_step, limit_step, limit_step_with_nodes,
+    solve_with_gaps_sqp,
+};
 pub use unilateral::{ContactSolution, GAP_TOLERANCE, PointGap, solve_with_gaps};
 
 use crate::math::Vec2;
@@ -301,6 +304,23 @@ impl<'a> Chain<'a> {
             return Err(RodError::BadInitialGuess { got: angles.len(), expected: rod.dofs() });
         }
         Ok(Self { rod, angles, nodes: rod.nodes(angles) })
+    }
+
+    /// The chain of `rod` at `angles` with their nodes already evaluated: `nodes` must be
+    /// `rod.nodes(angles)` (as [`limit_step_with_nodes`] returns them for the angles
+    /// after its step), which debug builds check.
+    ///
+    /// # Errors
+    /// Angles or nodes of the wrong length.
+    pub fn with_nodes(rod: &'a Rod, angles: &'a [f64], nodes: Vec<Vec2>) -> Result<Self, RodError> {
+        if angles.len() != rod.dofs() {
+            return Err(RodError::BadInitialGuess { got: angles.len(), expected: rod.dofs() });
+        }
+        if nodes.len() != rod.elements + 3 {
+            return Err(RodError::BadInput("the rod's nodes do not match its elements"));
+        }
+        debug_assert!(nodes == rod.nodes(angles), "nodes given for other angles");
+        Ok(Self { rod, angles, nodes })
     }
 
     /// The rod.

@@ -34,6 +34,7 @@ use super::{
     SolveStatus,
 };
 use super::{GAP_TOLERANCE, solve::RESIDUAL_TOLERANCE};
+use crate::math::Vec2;
 
 /// Largest change of any angle in one step (rad).
 pub const MAX_STEP_RAD: f64 = 0.5;
@@ -237,13 +238,23 @@ pub fn contact_step(
 /// the rod moves farther than `max_move` (m): the contact geometry is only linearised
 /// that far. Returns the factor applied (1 = the whole step).
 pub fn limit_step(chain: &Chain<'_>, step: &mut [f64], max_move: f64) -> f64 {
+    limit_step_with_nodes(chain, step, max_move).0
+}
+
+/// [`limit_step`], and the rod's nodes at the angles plus the limited step when the
+/// limit found them (the step is then exactly the trial it accepted), for the next
+/// [`Chain`] ([`Chain::with_nodes`]).
+pub fn limit_step_with_nodes(chain: &Chain<'_>, step: &mut [f64], max_move: f64) -> (f64, Option<Vec<Vec2>>) {
     let (rod, angles, before) = (chain.rod(), chain.angles(), chain.nodes());
     let big = step.iter().fold(0.0f64, |a, v| a.max(v.abs()));
     let mut alpha = if big > MAX_STEP_RAD { MAX_STEP_RAD / big } else { 1.0 };
+    let mut accepted = None;
     for _ in 0..30 {
         let trial: Vec<f64> = angles.iter().zip(step.iter()).map(|(a, d)| a + alpha * d).collect();
-        let moved = rod.nodes(&trial).iter().zip(before).map(|(a, b)| (*a - *b).length()).fold(0.0, f64::max);
+        let nodes = rod.nodes(&trial);
+        let moved = nodes.iter().zip(before).map(|(a, b)| (*a - *b).length()).fold(0.0, f64::max);
         if moved <= max_move {
+            accepted = Some(nodes);
             break;
         }
         // moves are nearly linear in the factor for small steps
@@ -252,7 +263,7 @@ pub fn limit_step(chain: &Chain<'_>, step: &mut [f64], max_move: f64) -> f64 {
     for v in step.iter_mut() {
         *v *= alpha;
     }
-    alpha
+    (alpha, accepted)
 }
 
 /// Iterations of [`solve_with_gaps_sqp`].

@@ -97,11 +97,36 @@ pub const MAX_HALVINGS: usize = 12;
 /// tries.
 pub(super) const REPEATED_FAILURES: usize = 2;
 
-/// How many times `target` is in `failed` (pressures of failed settles, Pa): compared
-/// exactly, as a retried target is the very value tried before (the closing's own
-/// pressure, or one of the sweep's).
-pub(super) fn failures_at(failed: &[f64], target: f64) -> usize {
-    failed.iter().filter(|&&p| p == target).count()
+/// The failed settles of one closing, by target pressure: how often each target
+/// failed and the equilibrium residual its latest failure ended with. Targets are
+/// compared exactly, as a retried target is the very value tried before (the closing's
+/// own pressure, or one of the sweep's).
+#[derive(Debug, Default)]
+pub(super) struct FailedTargets(Vec<FailedTarget>);
+
+#[derive(Debug)]
+struct FailedTarget {
+    pressure: f64,
+    count: usize,
+    residual: f64,
+}
+
+impl FailedTargets {
+    /// Records a failed settle at `target` (Pa) that ended with `residual`; returns how
+    /// many times `target` has failed now, and the residual of its previous failure.
+    pub(super) fn record(&mut self, target: f64, residual: f64) -> (usize, Option<f64>) {
+        match self.0.iter_mut().find(|f| f.pressure == target) {
+            Some(f) => {
+                f.count += 1;
+                let previous = std::mem::replace(&mut f.residual, residual);
+                (f.count, Some(previous))
+            }
+            None => {
+                self.0.push(FailedTarget { pressure: target, count: 1, residual });
+                (1, None)
+            }
+        }
+    }
 }
 /// Smallest move allowed per SQP step (m): when steps that keep turning back have
 /// halved the allowed move below this (ten million times below the penetration
@@ -460,7 +485,7 @@ pub fn close_finger(
     let mut report = fresh_report();
     let mut last: Option<StepResult> = None;
     let mut halvings = 0;
-    let mut failed: Vec<f64> = Vec::new();
+    let mut failed = FailedTargets::default();
     let mut prediction = PREDICTION;
     loop {
         let target = if dp.abs() >= (pressure - p_done).abs() { pressure } else { p_done + dp };
@@ -498,12 +523,12 @@ pub fn close_finger(
             }
             Settle::TooDeep | Settle::Failed => {
                 halvings += 1;
-                failed.push(target);
+                let (failures, _) = failed.record(target, report.residual);
                 // half the step that failed: a step grown past the rest of the way
                 // was cut to it, and the same step from the same state fails again
                 dp = 0.5 * (target - p_done);
                 if halvings > MAX_HALVINGS
-                    || failures_at(&failed, target) >= REPEATED_FAILURES
+                    || failures >= REPEATED_FAILURES
                     || dp.abs() < span / 4096.0
                     || report.iterations >= CLOSING_BUDGET
                 {
@@ -742,5 +767,19 @@ pub(super) mod tests {
             assert!(total > last_total, "{kpa} kPa: {total} <= {last_total}");
             last_total = total;
         }
+    }
+
+    /// The bookkeeping behind the repeated-failure and stuck rules: counts per exact
+    /// target, the previous failure's residual at that target, and targets kept apart
+    /// (a halved step is another pressure).
+    #[test]
+    fn failed_targets_count_each_pressure_and_return_its_previous_residual() {
+        let mut failed = FailedTargets::default();
+        assert_eq!(failed.record(100e3, 2e-3), (1, None));
+        assert_eq!(failed.record(90e3, 5e-3), (1, None));
+        assert_eq!(failed.record(100e3, 1e-3), (2, Some(2e-3)));
+        assert_eq!(failed.record(100e3, 7e-4), (3, Some(1e-3)));
+        assert_eq!(failed.record(90e3, 4e-3), (2, Some(5e-3)));
+        assert_eq!(failed.record(100e3 + 1e-9, 1.0), (1, None));
     }
 }

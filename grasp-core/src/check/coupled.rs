@@ -20,8 +20,8 @@ use parry3d_f64::bounding_volume::BoundingVolume;
 use parry3d_f64::query;
 
 use super::closing::{
-    ClosedFinger, Linearised, MAX_STEPS, Obstacles, PENETRATION_TOLERANCE, PREDICTION, STEP_TOLERANCE,
-    element_index, failures_at, first_pressure_step, fresh_report, is_closed, linearise, object_contacts,
+    ClosedFinger, FailedTargets, Linearised, MAX_STEPS, Obstacles, PENETRATION_TOLERANCE, PREDICTION,
+    STEP_TOLERANCE, element_index, first_pressure_step, fresh_report, is_closed, linearise, object_contacts,
     stalled, turns_back, weight_loads,
 };
 use crate::actuator::Actuator;
@@ -354,9 +354,7 @@ pub fn close_together(
     let span = (pressure - p_done).abs().max(1.0);
     let mut dp = first_pressure_step(p_done, pressure, warm);
     let mut halvings = 0;
-    let mut failed: Vec<f64> = Vec::new();
-    // (pressure, residual) of the latest failure at each pressure that failed
-    let mut failed_residual: Vec<(f64, f64)> = Vec::new();
+    let mut failed = FailedTargets::default();
     let mut last: Option<Settled> = None;
     while (p_done - pressure).abs() > 1e-12 * span {
         let target = if dp.abs() >= (pressure - p_done).abs() { pressure } else { p_done + dp };
@@ -371,23 +369,13 @@ pub fn close_together(
             }
             None => {
                 halvings += 1;
-                failed.push(target);
-                let stuck = match failed_residual.iter_mut().find(|(p, _)| *p == target) {
-                    Some((_, r)) => {
-                        let stuck = report.residual > STUCK_RESIDUAL_RATIO * *r;
-                        *r = report.residual;
-                        stuck
-                    }
-                    None => {
-                        failed_residual.push((target, report.residual));
-                        false
-                    }
-                };
+                let (failures, previous) = failed.record(target, report.residual);
+                let stuck = previous.is_some_and(|r| report.residual > STUCK_RESIDUAL_RATIO * r);
                 // half the step that failed: a step grown past the rest of the way
                 // was cut to it, and the same step from the same state fails again
                 dp = 0.5 * (target - p_done);
                 if halvings > COUPLED_HALVINGS
-                    || failures_at(&failed, target) >= COUPLED_REPEATED_FAILURES
+                    || failures >= COUPLED_REPEATED_FAILURES
                     || stuck
                     || dp.abs() < span / 4096.0
                     || report.iterations >= COUPLED_BUDGET

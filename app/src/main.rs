@@ -4,6 +4,8 @@
 //! `main` only turns the result of [`run`] into a process exit code (DESIGN 4.1):
 //! 0 = all checks pass, 1 = a check failed, 2 = bad input or usage, 3 = a solver did not
 //! converge. Every error goes to stderr prefixed with the program name.
+// bad input is an error with exit code 2, never a panic: no unwrap or expect outside tests
+#![cfg_attr(not(test), deny(clippy::unwrap_used, clippy::expect_used))]
 
 mod budget;
 mod cli;

@@ -24,6 +24,8 @@
 //! - [`fab`]: the fabrication sheet of an actuator (molds, silicone, fiber) and its wrap-pitch check.
 //! - [`sweep`]: layout search: search spaces, candidates, ranking, Pareto front, shards.
 #![deny(clippy::print_stdout, clippy::print_stderr)]
+// errors are values here: no unwrap or expect outside tests
+#![cfg_attr(not(test), deny(clippy::unwrap_used, clippy::expect_used))]
 
 pub mod actuator;
 pub mod calibrate;

@@ -144,9 +144,6 @@ impl FingerBody {
         if angles.len() != rod.elements {
             return Err(GeometryError::AngleCount { got: angles.len(), expected: rod.elements });
         }
-        for &a in angles {
-            finite("finger angle", a)?;
-        }
         Self::build(rod, angles, &rod.nodes(angles), section, frame, keep)
     }
 
@@ -160,13 +157,10 @@ impl FingerBody {
         frame: FingerFrame,
         keep: impl Fn(Vec3, f64) -> bool,
     ) -> Result<Self, GeometryError> {
-        for &a in chain.angles() {
-            finite("finger angle", a)?;
-        }
         Self::build(chain.rod(), chain.angles(), chain.nodes(), section, frame, keep)
     }
 
-    /// The body from `angles` of the right length and finite, and the rod's nodes there.
+    /// The body from `angles` of the right length, and the rod's nodes there.
     fn build(
         rod: &Rod,
         angles: &[f64],
@@ -175,6 +169,9 @@ impl FingerBody {
         frame: FingerFrame,
         keep: impl Fn(Vec3, f64) -> bool,
     ) -> Result<Self, GeometryError> {
+        for &a in angles {
+            finite("finger angle", a)?;
+        }
         let outline = section_outline(section);
         let outline_reach = outline.iter().map(|q| q.length()).fold(0.0, f64::max);
         let h = rod.element_length();
